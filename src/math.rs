@@ -3,6 +3,9 @@
 //! The physics core calls only these, so the same code builds for firmware
 //! (`--no-default-features --features libm`) and for hosts.
 
+// A table of functions shared by every module; a build need not use all of them.
+#![allow(dead_code)]
+
 #[cfg(feature = "std")]
 mod imp {
     #[inline]
@@ -56,6 +59,10 @@ mod imp {
     #[inline]
     pub fn powf(x: f64, y: f64) -> f64 {
         x.powf(y)
+    }
+    #[inline]
+    pub fn hypot(x: f64, y: f64) -> f64 {
+        x.hypot(y)
     }
     #[inline]
     pub fn powi(x: f64, n: i32) -> f64 {
@@ -116,6 +123,10 @@ mod imp {
     #[inline]
     pub fn powf(x: f64, y: f64) -> f64 {
         libm::pow(x, y)
+    }
+    #[inline]
+    pub fn hypot(x: f64, y: f64) -> f64 {
+        libm::hypot(x, y)
     }
     #[inline]
     pub fn powi(x: f64, n: i32) -> f64 {

@@ -23,8 +23,10 @@ pub struct Vec3 {
 
 impl Vec3 {
     /// The zero vector.
+    /// cbindgen:ignore
     pub const ZERO: Vec3 = Vec3::new(0.0, 0.0, 0.0);
     /// A vector with every component NaN: what fallible calls write on error.
+    /// cbindgen:ignore
     pub const NAN: Vec3 = Vec3::new(f64::NAN, f64::NAN, f64::NAN);
 
     /// A vector from its components.
@@ -57,7 +59,7 @@ impl Vec3 {
         if m == 0.0 || !m.is_finite() {
             return m;
         }
-        if m > 1e150 || m < 1e-150 {
+        if !(1e-150..=1e150).contains(&m) {
             let s = self * (1.0 / m);
             return m * math::sqrt(s.dot(s));
         }
@@ -168,6 +170,7 @@ impl Ray {
     }
 
     /// A ray with every component NaN: what fallible calls write on error.
+    /// cbindgen:ignore
     pub const NAN: Ray = Ray::new(Vec3::NAN, Vec3::NAN);
 
     /// The point `origin + s * direction`.

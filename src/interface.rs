@@ -1,0 +1,337 @@
+//! One flat interface between two media: Snell's law in vector form, the
+//! Fresnel power coefficients and the critical angle.
+//!
+//! Sources: E. Hecht, *Optics*, 5th ed. (Pearson, 2017), §4.4 (Snell's law)
+//! and §4.6 (Fresnel equations, eqs. 4.42–4.45 for the amplitude coefficients,
+//! 4.56–4.62 for reflectance and transmittance); the vector form of Snell's law
+//! as in A. S. Glassner (ed.), *An Introduction to Ray Tracing* (1989), ch. 4.
+
+use crate::error::{positive, Error, Result};
+use crate::math;
+use crate::vector::Vec3;
+
+/// `n_t cos θ_t` for a ray of ray parameter `p = n_i sin θ_i` entering a medium of
+/// index `n_t`, computed without cancellation when `n_t >= n_i`:
+///
+/// `(n_t cos θ_t)² = n_t² − p² = (n_t − n_i)(n_t + n_i) + (n_i cos θ_i)²`.
+///
+/// Returns `None` beyond the critical angle (the square is negative).
+#[inline]
+pub(crate) fn n_cos_in(n_i: f64, n_i_cos_i: f64, n_t: f64) -> Option<f64> {
+    let sq = (n_t - n_i) * (n_t + n_i) + n_i_cos_i * n_i_cos_i;
+    if sq >= 0.0 {
+        Some(math::sqrt(sq))
+    } else {
+        None
+    }
+}
+
+/// Refract a direction at a plane interface (Snell's law, vector form).
+///
+/// With `d̂` the unit incident direction, `n̂` the unit normal oriented along the
+/// propagation (`d̂·n̂ > 0`), `η = n_from / n_to` and `cos θ_i = d̂·n̂`:
+///
+/// `t̂ = η (d̂ − cos θ_i n̂) + cos θ_t n̂`, with `n_to cos θ_t = √(n_to² − n_from² sin² θ_i)`.
+///
+/// `normal` may have either orientation and any non-zero length; `direction`
+/// any non-zero length. The result is a unit vector.
+///
+/// # Errors
+/// * [`Error::InvalidArgument`]: zero, subnormal-length or non-finite `direction`
+///   or `normal`; an index that is not finite and > 0.
+/// * [`Error::MissesInterface`]: `direction` lies in the interface plane.
+/// * [`Error::TotalInternalReflection`]: beyond the critical angle.
+///
+/// # Example
+/// ```
+/// use flatray::{refract, Vec3};
+/// // 45 degrees from air into water of index 1.333.
+/// let d = Vec3::new(1.0, 0.0, 1.0);
+/// let t = refract(d, Vec3::new(0.0, 0.0, 1.0), 1.0, 1.333)?;
+/// let sin_t = t.x; // the x axis lies in the interface
+/// assert!((sin_t - 0.5f64.sqrt() / 1.333).abs() < 1e-15);
+/// # Ok::<(), flatray::Error>(())
+/// ```
+pub fn refract(direction: Vec3, normal: Vec3, n_from: f64, n_to: f64) -> Result<Vec3> {
+    let d = direction.direction("direction must be finite and non-zero")?;
+    let mut n = normal.direction("normal must be finite and non-zero")?;
+    let n_from = positive(n_from, "n_from must be finite and > 0")?;
+    let n_to = positive(n_to, "n_to must be finite and > 0")?;
+    let mut cos_i = d.dot(n);
+    if cos_i < 0.0 {
+        n = -n;
+        cos_i = -cos_i;
+    }
+    if cos_i <= 0.0 {
+        return Err(Error::MissesInterface(
+            "the direction lies in the interface plane",
+        ));
+    }
+    let tangential = d - n * cos_i;
+    let n_cos_t = n_cos_in(n_from, n_from * cos_i, n_to).ok_or(Error::TotalInternalReflection(
+        "the incidence angle is beyond the critical angle",
+    ))?;
+    let t = tangential * (n_from / n_to) + n * (n_cos_t / n_to);
+    // |t| = 1 up to rounding; renormalise so the output is unit to the last bit.
+    t.direction("refracted direction underflowed")
+}
+
+/// Fresnel power coefficients of a dielectric interface.
+///
+/// `rs`, `rp` are reflectances and `ts`, `tp` transmittances for s and p
+/// polarisation (`rs + ts = 1`, `rp + tp = 1`); `r`, `t` are the means for
+/// unpolarised light. Laid out as `FlatrayFresnel` in C.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[repr(C)]
+pub struct Fresnel {
+    /// Reflectance, s polarisation.
+    pub rs: f64,
+    /// Reflectance, p polarisation.
+    pub rp: f64,
+    /// Transmittance, s polarisation.
+    pub ts: f64,
+    /// Transmittance, p polarisation.
+    pub tp: f64,
+    /// Reflectance of unpolarised light, `(rs + rp) / 2`.
+    pub r: f64,
+    /// Transmittance of unpolarised light, `(ts + tp) / 2`.
+    pub t: f64,
+}
+
+impl Fresnel {
+    /// Every coefficient NaN: what fallible calls write on error.
+    /// cbindgen:ignore
+    pub const NAN: Fresnel = Fresnel {
+        rs: f64::NAN,
+        rp: f64::NAN,
+        ts: f64::NAN,
+        tp: f64::NAN,
+        r: f64::NAN,
+        t: f64::NAN,
+    };
+
+    /// Total reflection: `r = rs = rp = 1`, `t = ts = tp = 0`.
+    /// cbindgen:ignore
+    pub const TOTAL_REFLECTION: Fresnel = Fresnel {
+        rs: 1.0,
+        rp: 1.0,
+        ts: 0.0,
+        tp: 0.0,
+        r: 1.0,
+        t: 0.0,
+    };
+
+    /// Coefficients from `n_i cos θ_i` and `n_t cos θ_t` on each side, plus the
+    /// indices (Hecht eqs. 4.42–4.45 squared, and `T = 1 − R` written out):
+    ///
+    /// `Rs = ((n_i cos θ_i − n_t cos θ_t)/(n_i cos θ_i + n_t cos θ_t))²`,
+    /// `Ts = 4 n_i cos θ_i n_t cos θ_t / (n_i cos θ_i + n_t cos θ_t)²`,
+    /// `Rp = ((n_t² n_i cos θ_i − n_i² n_t cos θ_t)/(n_t² n_i cos θ_i + n_i² n_t cos θ_t))²`,
+    /// `Tp = 4 n_i² n_t² (n_i cos θ_i)(n_t cos θ_t) / (n_t² n_i cos θ_i + n_i² n_t cos θ_t)²`.
+    ///
+    /// (The p forms are Hecht's `(n_t cos θ_i − n_i cos θ_t)/(n_t cos θ_i + n_i cos θ_t)`
+    /// multiplied through by `n_i n_t`.) Requires both products >= 0, not both 0.
+    #[inline]
+    pub(crate) fn from_projections(n_i: f64, a: f64, n_t: f64, b: f64) -> Fresnel {
+        let s_den = a + b;
+        let s_diff = (a - b) / s_den;
+        let rs = s_diff * s_diff;
+        let ts = 4.0 * a * b / (s_den * s_den);
+        let pa = n_t * n_t * a;
+        let pb = n_i * n_i * b;
+        let p_den = pa + pb;
+        let p_diff = (pa - pb) / p_den;
+        let rp = p_diff * p_diff;
+        let tp = 4.0 * pa * pb / (p_den * p_den);
+        Fresnel {
+            rs,
+            rp,
+            ts,
+            tp,
+            r: 0.5 * (rs + rp),
+            t: 0.5 * (ts + tp),
+        }
+    }
+}
+
+/// Fresnel power coefficients for light meeting a flat interface from a medium
+/// of index `n_from` into one of index `n_to`, at incidence `cos_incidence`
+/// (cosine of the angle from the normal, in `[0, 1]`).
+///
+/// Beyond the critical angle the light is totally reflected and the result is
+/// [`Fresnel::TOTAL_REFLECTION`] (not an error). At grazing incidence
+/// (`cos_incidence = 0`) everything is reflected; between equal indices
+/// everything is transmitted.
+///
+/// # Errors
+/// [`Error::InvalidArgument`] when `cos_incidence` is outside `[0, 1]` or NaN,
+/// or an index is not finite and > 0.
+///
+/// # Example
+/// ```
+/// // Normal incidence on glass of index 1.5: R = ((1.5 − 1)/(1.5 + 1))² = 0.04
+/// // (Hecht, Optics, eq. 4.67).
+/// let f = flatray::fresnel(1.0, 1.0, 1.5)?;
+/// assert!((f.r - 0.04).abs() < 1e-15);
+/// # Ok::<(), flatray::Error>(())
+/// ```
+pub fn fresnel(cos_incidence: f64, n_from: f64, n_to: f64) -> Result<Fresnel> {
+    if !(0.0..=1.0).contains(&cos_incidence) {
+        return Err(Error::InvalidArgument("cos_incidence must be in [0, 1]"));
+    }
+    let n_from = positive(n_from, "n_from must be finite and > 0")?;
+    let n_to = positive(n_to, "n_to must be finite and > 0")?;
+    Ok(fresnel_unchecked(n_from, n_from * cos_incidence, n_to))
+}
+
+/// [`fresnel`] for validated indices, from `n_i cos θ_i`.
+#[inline]
+pub(crate) fn fresnel_unchecked(n_i: f64, n_i_cos_i: f64, n_t: f64) -> Fresnel {
+    if n_i == n_t {
+        return Fresnel {
+            rs: 0.0,
+            rp: 0.0,
+            ts: 1.0,
+            tp: 1.0,
+            r: 0.0,
+            t: 1.0,
+        };
+    }
+    match n_cos_in(n_i, n_i_cos_i, n_t) {
+        Some(n_t_cos_t) if n_i_cos_i > 0.0 || n_t_cos_t > 0.0 => {
+            Fresnel::from_projections(n_i, n_i_cos_i, n_t, n_t_cos_t)
+        }
+        _ => Fresnel::TOTAL_REFLECTION,
+    }
+}
+
+/// The critical angle, radians, for light going from `n_from` into a less dense
+/// medium `n_to`: `θ_c = asin(n_to / n_from)` (Hecht §4.7).
+///
+/// # Errors
+/// [`Error::InvalidArgument`] when an index is not finite and > 0, or when
+/// `n_from <= n_to` (no critical angle exists).
+///
+/// # Example
+/// ```
+/// // Water (1.333) to air: about 48.6 degrees (common practice).
+/// let c = flatray::critical_angle(1.333, 1.0)?;
+/// assert!((c.to_degrees() - 48.6).abs() < 0.05);
+/// # Ok::<(), flatray::Error>(())
+/// ```
+pub fn critical_angle(n_from: f64, n_to: f64) -> Result<f64> {
+    let n_from = positive(n_from, "n_from must be finite and > 0")?;
+    let n_to = positive(n_to, "n_to must be finite and > 0")?;
+    if n_from <= n_to {
+        return Err(Error::InvalidArgument(
+            "no critical angle: n_from must be greater than n_to",
+        ));
+    }
+    Ok(math::asin(n_to / n_from))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Identities hold to a few ulps of 1; 8 ε leaves room for the rounding of
+    /// a square root and three products.
+    const IDENTITY_TOL: f64 = 8.0 * f64::EPSILON;
+
+    #[test]
+    fn refraction_obeys_snell_and_keeps_plane_of_incidence() {
+        let n = Vec3::new(0.0, 0.0, 1.0);
+        for deg in [0.0f64, 10.0, 30.0, 60.0, 89.0] {
+            let a = deg.to_radians();
+            let d = Vec3::new(a.sin(), 0.0, a.cos());
+            let t = refract(d, n, 1.0, 1.5).unwrap();
+            assert!((t.length() - 1.0).abs() < IDENTITY_TOL);
+            assert!((1.5 * t.x - a.sin()).abs() < IDENTITY_TOL, "Snell at {deg}");
+            assert_eq!(t.y, 0.0);
+            assert!(t.z > 0.0);
+        }
+    }
+
+    #[test]
+    fn normal_orientation_does_not_matter() {
+        let d = Vec3::new(0.3, 0.1, 1.0);
+        let a = refract(d, Vec3::new(0.0, 0.0, 1.0), 1.0, 1.33).unwrap();
+        let b = refract(d, Vec3::new(0.0, 0.0, -5.0), 1.0, 1.33).unwrap();
+        assert_eq!(a, b);
+    }
+
+    #[test]
+    fn refraction_errors() {
+        let n = Vec3::new(0.0, 0.0, 1.0);
+        assert!(matches!(
+            refract(Vec3::new(1.0, 0.0, 0.0), n, 1.0, 1.5),
+            Err(Error::MissesInterface(_))
+        ));
+        // 60 degrees from water (1.333) to air exceeds the 48.6 degree critical angle.
+        let d = Vec3::new(60f64.to_radians().sin(), 0.0, 60f64.to_radians().cos());
+        assert!(matches!(
+            refract(d, n, 1.333, 1.0),
+            Err(Error::TotalInternalReflection(_))
+        ));
+        assert!(matches!(
+            refract(Vec3::ZERO, n, 1.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            refract(n, Vec3::ZERO, 1.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            refract(n, n, 0.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            refract(n, n, 1.0, f64::NAN),
+            Err(Error::InvalidArgument(_))
+        ));
+    }
+
+    #[test]
+    fn fresnel_energy_and_limits() {
+        for &(n1, n2) in &[(1.0, 1.5), (1.5, 1.0), (1.0, 1.333), (1.333, 1.52)] {
+            for i in 0..=100 {
+                let c = i as f64 / 100.0;
+                let f = fresnel(c, n1, n2).unwrap();
+                assert!((f.rs + f.ts - 1.0).abs() < IDENTITY_TOL);
+                assert!((f.rp + f.tp - 1.0).abs() < IDENTITY_TOL);
+                assert!((f.r + f.t - 1.0).abs() < IDENTITY_TOL);
+            }
+        }
+        assert_eq!(fresnel(0.0, 1.0, 1.5).unwrap(), Fresnel::TOTAL_REFLECTION);
+        assert_eq!(fresnel(0.2, 1.5, 1.0).unwrap(), Fresnel::TOTAL_REFLECTION);
+        assert_eq!(fresnel(0.0, 1.2, 1.2).unwrap().t, 1.0);
+        assert!(matches!(
+            fresnel(1.1, 1.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            fresnel(-0.1, 1.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            fresnel(f64::NAN, 1.0, 1.5),
+            Err(Error::InvalidArgument(_))
+        ));
+    }
+
+    #[test]
+    fn critical_angle_errors() {
+        assert!(matches!(
+            critical_angle(1.0, 1.333),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            critical_angle(1.2, 1.2),
+            Err(Error::InvalidArgument(_))
+        ));
+        assert!(matches!(
+            critical_angle(-1.0, 1.0),
+            Err(Error::InvalidArgument(_))
+        ));
+    }
+}
