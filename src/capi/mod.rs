@@ -155,3 +155,32 @@ pub(crate) fn deliver<T, E: Into<FlatrayStatus>>(
         }
     }
 }
+
+#[cfg(all(test, feature = "std"))]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_panic_becomes_the_internal_status() {
+        // Silence the default hook's message for this deliberate panic.
+        let hook = std::panic::take_hook();
+        std::panic::set_hook(std::boxed::Box::new(|_| {}));
+        let status = guard(|| -> Result<(), FlatrayStatus> { panic!("deliberate") });
+        std::panic::set_hook(hook);
+        assert_eq!(status, FlatrayStatus::FLATRAY_ERR_INTERNAL);
+    }
+
+    #[test]
+    fn null_with_zero_count_is_an_empty_slice() {
+        let s: &[f64] = unsafe { slice_in(core::ptr::null(), 0) }.unwrap();
+        assert!(s.is_empty());
+        let e = unsafe { slice_in::<f64>(core::ptr::null(), 3) };
+        assert_eq!(e.err(), Some(FlatrayStatus::FLATRAY_ERR_NULL_POINTER));
+        let huge =
+            unsafe { slice_in::<f64>(core::ptr::NonNull::dangling().as_ptr(), usize::MAX / 4) };
+        assert_eq!(
+            huge.err(),
+            Some(FlatrayStatus::FLATRAY_ERR_INVALID_ARGUMENT)
+        );
+    }
+}

@@ -52,9 +52,11 @@ impl From<Status> for FlatrayStatus {
 /// The library version, e.g. `"0.1.0"`: a static NUL-terminated string.
 #[no_mangle]
 pub extern "C" fn flatray_version() -> *const c_char {
-    const VERSION: &[u8] = concat!(env!("CARGO_PKG_VERSION"), "\0").as_bytes();
     guard_or(VERSION.as_ptr().cast(), || VERSION.as_ptr().cast())
 }
+
+/// `CARGO_PKG_VERSION`, NUL-terminated.
+const VERSION: &[u8] = concat!(env!("CARGO_PKG_VERSION"), "\0").as_bytes();
 
 /// A static NUL-terminated English message for a status code; never NULL, also
 /// for codes flatray does not define.

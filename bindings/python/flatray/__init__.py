@@ -1,0 +1,79 @@
+"""flatray: where objects really are when seen through flat refracting layers.
+
+A ctypes binding of the flatray C library (ABI version 1). Units: metres and
+radians everywhere; degrees only in helpers whose names end in ``_deg``.
+Refractive indices are absolute (relative to vacuum).
+
+Example:
+    A stone seen from a drone 10 m above a lake::
+
+        >>> import flatray
+        >>> lake = flatray.Stack.single_interface((0, 0, 0), (0, 0, -1), 1.0, 1.333)
+        >>> seen = flatray.apparent_position(lake, (0, 0, 10), (3, 0, -2))
+        >>> back = flatray.true_position(lake, (0, 0, 10), seen)
+        >>> [round(float(v), 9) for v in back]
+        [3.0, 0.0, -2.0]
+
+The raw C functions, with ``argtypes``/``restype`` declared, are attributes of
+:data:`flatray.lib` (a ``ctypes.CDLL``).
+"""
+
+from ._version import __version__
+from ._types import (
+    MAX_LAYERS,
+    FlatrayFresnel,
+    FlatrayPath,
+    FlatrayRay,
+    FlatrayStack,
+    FlatrayVec3,
+    Image,
+    Status,
+)
+from .errors import (
+    BufferTooSmallError,
+    FlatrayError,
+    InternalError,
+    InvalidArgumentError,
+    LibraryLoadError,
+    MissesInterfaceError,
+    NotConvergedError,
+    NullPointerError,
+    OutOfRangeError,
+    TotalInternalReflectionError,
+    WrongSideError,
+)
+from ._lib import ENV_VAR, check, lib, library_path, status_message
+from .stack import Stack
+from .interface import Fresnel, critical_angle, critical_angle_deg, fresnel, refract
+from .path import Path, Traced, line_of_sight, trace
+from .image import (
+    apparent_depth,
+    apparent_depth_deg,
+    apparent_position,
+    true_depth,
+    true_depth_deg,
+    true_position,
+)
+from .batch import PointBatch, RayBatch, apparent_positions, trace_rays, true_positions
+
+
+def library_version() -> str:
+    """The loaded C library's version string (``flatray_version()``)."""
+    return lib.flatray_version().decode("ascii")
+
+
+__all__ = [
+    "__version__", "MAX_LAYERS", "ENV_VAR", "lib", "library_path", "library_version",
+    "check", "status_message",
+    "FlatrayVec3", "FlatrayRay", "FlatrayStack", "FlatrayFresnel", "FlatrayPath",
+    "Status", "Image",
+    "FlatrayError", "NullPointerError", "InvalidArgumentError",
+    "TotalInternalReflectionError", "MissesInterfaceError", "WrongSideError",
+    "NotConvergedError", "OutOfRangeError", "BufferTooSmallError", "InternalError",
+    "LibraryLoadError",
+    "Stack", "Fresnel", "refract", "fresnel", "critical_angle", "critical_angle_deg",
+    "Traced", "Path", "trace", "line_of_sight",
+    "apparent_position", "true_position", "apparent_depth", "true_depth",
+    "apparent_depth_deg", "true_depth_deg",
+    "PointBatch", "RayBatch", "true_positions", "apparent_positions", "trace_rays",
+]
