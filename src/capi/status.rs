@@ -62,8 +62,9 @@ const VERSION: &[u8] = concat!(env!("CARGO_PKG_VERSION"), "\0").as_bytes();
 /// for codes flatray does not define.
 #[no_mangle]
 pub extern "C" fn flatray_status_message(status: i32) -> *const c_char {
-    let fallback = message_for_code(Status::Internal.code()).as_ptr();
-    guard_or(fallback, || message_for_code(status).as_ptr())
+    guard_or(Status::Internal.message_cstr().as_ptr(), || {
+        message_for_code(status).as_ptr()
+    })
 }
 
 #[cfg(test)]
