@@ -61,7 +61,7 @@ fi
 
 if command -v valgrind >/dev/null 2>&1; then
     echo "== test under valgrind (shared library)"
-    valgrind --error-exitcode=1 --leak-check=full --quiet "$build/test_flatray" >/dev/null
+    valgrind --error-exitcode=1 --leak-check=full --quiet "$build/test_flatray"
     echo "valgrind: no errors"
 else
     echo "== valgrind not installed: skipping the valgrind run"

@@ -107,8 +107,16 @@ pub unsafe extern "C" fn flatray_trace(
 ) -> FlatrayStatus {
     guard(|| {
         // SAFETY: caller contract for every pointer.
-        let out = unsafe { required_out(out_object_ray) }?;
         let out_t = unsafe { optional_out(out_transmittance) };
+        let out = match unsafe { required_out(out_object_ray) } {
+            Ok(out) => out,
+            Err(status) => {
+                if let Some(t) = out_t {
+                    *t = f64::NAN;
+                }
+                return Err(status);
+            }
+        };
         let result = unsafe { stack_from(stack) }
             .and_then(|s| trace(&s, observer_ray).map_err(FlatrayStatus::from));
         if let Some(out_t) = out_t {
