@@ -87,6 +87,11 @@ pub mod path;
 pub mod stack;
 pub mod vector;
 
+/// The README's Rust examples run as doc tests.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+mod readme_examples {}
+
 pub use batch::{BatchReport, NoStatus, StatusSink};
 pub use error::{Error, Result, Status};
 pub use image::{apparent_depth, apparent_position, true_depth, true_position, Image};
