@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import operator
+
 import numpy as np
 
 from ._types import FlatrayVec3, Image
@@ -45,8 +47,8 @@ def image_code(image) -> int:
             raise ValueError(
                 f"unknown image {image!r}: use 'sagittal' or 'tangential'") from None
     try:
-        code = int(image)
-    except (TypeError, ValueError):
+        code = operator.index(image)
+    except TypeError:
         raise ValueError(f"image must be an Image, its name or an int, got {image!r}") from None
     if not _INT32_MIN <= code <= _INT32_MAX:
         raise ValueError(f"image code {code} does not fit in int32")

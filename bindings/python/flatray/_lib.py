@@ -125,7 +125,7 @@ def find_library(environ: Mapping[str, str] | None = None,
                 f"full path of the flatray shared library (e.g. .../target/release/"
                 f"{library_file_names()[0]}), or unset it to search the repository's target/"
             )
-        return str(override)
+        return str(Path(override).resolve())
     tried = []
     for candidate in repository_candidates(package_dir):
         tried.append(str(candidate))

@@ -61,7 +61,10 @@ def _finish(rc: int, status: np.ndarray, function: str, raise_on_error: bool) ->
     if status.size == 0 or bool((status == _UNSET).any()):
         _lib.check(rc, function)  # whole-call error: nothing was written
     if raise_on_error:
-        index = int(np.flatnonzero(status != Status.OK)[0])
+        failed = np.flatnonzero(status != Status.OK)
+        if failed.size == 0:  # cannot happen by the contract; still raise what was returned
+            _lib.check(rc, function)
+        index = int(failed[0])
         _lib.check(int(status[index]), function, index=index)
 
 

@@ -26,7 +26,7 @@ def test_version_mismatch_fails_clearly():
 def test_environment_variable_overrides(tmp_path):
     fake = tmp_path / "libflatray-custom.so"
     fake.write_bytes(b"")
-    assert _lib.find_library({"FLATRAY_LIBRARY": str(fake)}, package_dir=tmp_path) == str(fake)
+    assert _lib.find_library({"FLATRAY_LIBRARY": str(fake)}, package_dir=tmp_path) == str(fake.resolve())
 
 
 def test_environment_variable_naming_nothing_is_an_error(tmp_path):
