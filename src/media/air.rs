@@ -8,10 +8,10 @@
 //!   `10⁸ (n_as − 1) = k₁/(k₀ − σ²) + k₃/(k₂ − σ²)`,
 //!   `k₀ = 238.0185 µm⁻²`, `k₁ = 5 792 105 µm⁻²`, `k₂ = 57.362 µm⁻²`,
 //!   `k₃ = 167 917 µm⁻²`.
-//! * CO₂ content `x_c` (ppm), Ciddor eq. 2:
+//! * CO₂ content `x_c` (ppm):
 //!   `n_axs − 1 = (n_as − 1) [1 + 0.534 × 10⁻⁶ (x_c − 450)]`, and the molar mass
 //!   of dry air `M_a = 10⁻³ [28.9635 + 12.011 × 10⁻⁶ (x_c − 400)] kg/mol`.
-//! * Pure water vapour at 20 °C and 1333 Pa, Ciddor eq. 3:
+//! * Pure water vapour at 20 °C and 1333 Pa:
 //!   `10⁸ (n_ws − 1) = 1.022 (w₀ + w₁σ² + w₂σ⁴ + w₃σ⁶)`, `w₀ = 295.235`,
 //!   `w₁ = 2.6422`, `w₂ = −0.032380`, `w₃ = 0.004028` (µm⁻² powers).
 //! * Moist air: `n − 1 = (ρ_a/ρ_axs)(n_axs − 1) + (ρ_w/ρ_ws)(n_ws − 1)`, the
@@ -52,9 +52,9 @@ pub const MIN_WAVELENGTH_NM: f64 = 300.0;
 /// Longest vacuum wavelength of the air model, nm.
 pub const MAX_WAVELENGTH_NM: f64 = 1700.0;
 
-/// Shortest vacuum wavelength of [`standard_air_index`], nm (the data range,
-/// 0.23–1.69 µm, of the Peck & Reeder (1972) dispersion formula on which
-/// Ciddor's eq. 1 rests).
+/// Shortest vacuum wavelength of [`standard_air_index`], nm (the range usually
+/// quoted for Ciddor's eq. 1, 0.23–1.69 µm, that of the dry-air dispersion data
+/// it was built from).
 pub const STANDARD_AIR_MIN_WAVELENGTH_NM: f64 = 230.0;
 /// Longest vacuum wavelength of [`standard_air_index`], nm.
 pub const STANDARD_AIR_MAX_WAVELENGTH_NM: f64 = 1690.0;
@@ -64,7 +64,7 @@ const K0: f64 = 238.0185;
 const K1: f64 = 5_792_105.0;
 const K2: f64 = 57.362;
 const K3: f64 = 167_917.0;
-// Ciddor (1996) eq. 3: water vapour at 20 °C, 1333 Pa.
+// Ciddor (1996): water vapour at 20 °C, 1333 Pa.
 const W0: f64 = 295.235;
 const W1: f64 = 2.6422;
 const W2: f64 = -0.032_380;

@@ -171,9 +171,10 @@ pub(crate) mod testutil {
     /// Central-difference check of an analytic slope.
     ///
     /// Step `h = 0.01 nm`. The truncation error of the central difference is
-    /// `h² |n'''| / 6`: for the most dispersive case here (sapphire near 200 nm,
-    /// `|n'''|` below 1e-6 nm⁻³) under 2e-11 per nm, about 1e-8 of the slope
-    /// there (~1e-3 per nm); for water at 532 nm (`|n'''|` ~ 2e-9 nm⁻³) about
+    /// `h² |n'''| / 6`: for the most dispersive cases here (water and sapphire
+    /// near 200 nm, `|n'''|` about 2e-6 nm⁻³, computed with mpmath) about 4e-11
+    /// per nm, 2e-8 of the slope there (~2e-3 per nm); for water at 532 nm
+    /// (`|n'''|` ≈ 1.8e-9 nm⁻³) about
     /// 3e-14 per nm. The rounding error is `ε n / h ≈ 2.2e-16 · 1.8 / 0.01 ≈ 4e-14`
     /// per nm. The tolerance `1e-6 |slope| + 1e-12` per nm covers both with a wide
     /// margin and still catches any wrong term in a derivative (air slopes of

@@ -29,12 +29,11 @@
 //! `n_sw(T, S, λ, p) = n_QF(T, S, λ) + [n_w(T, p, λ) − n_w(T, p₀, λ)]`,
 //! `p₀ = 101 325 Pa`.
 //!
-//! The assumption is that dissolved salt changes the pressure coefficient of
-//! the index only slightly: Millard and Seaver (Deep-Sea Res. 37, 1909, 1990)
-//! fitted seawater's pressure terms with small salinity cross-terms, which this
-//! approximation leaves out. The pure-water term is about +1.5 × 10⁻⁴ per 10⁶ Pa
-//! (roughly per 100 m of depth), so at depth it matters more than the salinity
-//! cross-term it neglects. `pressure_pa` is absolute: about
+//! This assumes that dissolved salt changes the pressure coefficient of the
+//! index only slightly; flatray does not check it against a seawater data set
+//! or algorithm with explicit pressure terms (such as Millard and Seaver,
+//! Deep-Sea Res. 37, 1909 (1990)). The pure-water term is about +1.5 × 10⁻⁴ per
+//! 10⁶ Pa (roughly per 100 m of depth). `pressure_pa` is absolute: about
 //! `101 325 + 10 070 · depth_m` Pa in the open ocean.
 
 use crate::error::Result;

@@ -20,10 +20,10 @@
 //!
 //! Validity (R9-97): −12 °C to 500 °C, 0 to 1060 kg m⁻³, 0.2 to 1.1 µm, in the
 //! stable fluid region and the supercooled liquid. The index is relative to
-//! vacuum. flatray takes `λ` as the vacuum wavelength (the footing of the
-//! underlying data reduction as far as this project could verify; reading it as
-//! an air wavelength instead would change `n` by about 5 × 10⁻⁶ at 589 nm,
-//! below the formulation's stated uncertainty).
+//! vacuum. flatray takes `λ` as the vacuum wavelength; this project could not
+//! confirm the release's own wording on that point. Reading `λ` as a wavelength
+//! in air instead would change `n` by about 5 × 10⁻⁶ at 589 nm, below the
+//! formulation's uncertainty.
 //!
 //! For `(T, p)` inputs the density comes from IAPWS-IF97 region 1
 //! ([`crate::media::if97`]), which limits [`PureWater`] to 0–350 °C and
@@ -221,9 +221,9 @@ mod tests {
     use crate::media::air::standard_air_index;
     use crate::media::testutil::check_slope;
 
-    // Check values printed with the IAPWS R9-97 formula's verification examples
-    // (reproduced in the docstring of `_Refractive` of the `iapws` Python
-    // package, 1.5.5): (997.047435 kg/m3, 298.15 K, 0.2265 um) -> 1.39277824 and
+    // Check values: the two examples in the docstring of `_Refractive` in the
+    // `iapws` Python package (1.5.5), which cites the R9-97 release:
+    // (997.047435 kg/m3, 298.15 K, 0.2265 um) -> 1.39277824 and
     // (30.4758534 kg/m3, 773.15 K, 0.5893 um) -> 1.00949307. Tolerance: half a
     // unit in the 8th decimal.
     #[test]
