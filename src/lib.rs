@@ -83,6 +83,11 @@ pub mod error;
 pub mod image;
 pub mod interface;
 mod math;
+/// Refractive-index models: air, water, seawater, window materials, user
+/// formulas, and a stack builder. The C header generator skips this module (the
+/// line below tells it so); the C ABI reaches it only through `capi`.
+///
+/// cbindgen:ignore
 pub mod media;
 pub mod path;
 pub mod stack;

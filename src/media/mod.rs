@@ -4,11 +4,11 @@
 //!
 //! | medium | model | module | validity |
 //! | --- | --- | --- | --- |
-//! | air | Ciddor (1996) | [`air`] | −40…100 °C, 10…140 kPa, RH 0…1, CO₂ 0…2000 ppm, 300…1700 nm |
-//! | pure water | IAPWS R9-97 with IAPWS-IF97 region-1 density | [`water`], [`if97`] | 0…350 °C, p_s(T)…100 MPa, 200…1100 nm |
-//! | seawater | Quan & Fry (1995) plus the IAPWS pressure term | [`seawater`] | 0…30 °C, 0…35 PSU, 400…700 nm, p_s(T)…100 MPa |
-//! | window materials | published dispersion fits | [`materials`] | per material |
-//! | user formulas | 3-term Sellmeier, Cauchy | [`dispersion`] | as the user states |
+//! | air | Ciddor (1996) | [`air`](crate::media::air) | −40…100 °C, 10…140 kPa, RH 0…1, CO₂ 0…2000 ppm, 300…1700 nm |
+//! | pure water | IAPWS R9-97 with IAPWS-IF97 region-1 density | [`water`](crate::media::water), [`if97`](crate::media::if97) | 0…350 °C, p_s(T)…100 MPa, 200…1100 nm |
+//! | seawater | Quan & Fry (1995) plus the IAPWS pressure term | [`seawater`](crate::media::seawater) | 0…30 °C, 0…35 PSU, 400…700 nm, p_s(T)…100 MPa |
+//! | window materials | published dispersion fits | [`materials`](crate::media::materials) | per material |
+//! | user formulas | 3-term Sellmeier, Cauchy | [`dispersion`](crate::media::dispersion) | as the user states |
 //!
 //! # Footing
 //!
@@ -18,7 +18,7 @@
 //! equation, give the index relative to the surrounding air at wavelengths
 //! measured in that air. flatray converts such a fit on the footing of
 //! *standard air* (dry air at 15 °C, 101 325 Pa, 450 ppm CO₂, the reference air of
-//! Ciddor 1996, eq. 1; see [`air::standard_air_index`]):
+//! Ciddor 1996, eq. 1; see [`air::standard_air_index`](crate::media::air::standard_air_index)):
 //!
 //! `n_abs(λ) = n_std(λ) · n_rel(λ / n_std(λ))`
 //!
