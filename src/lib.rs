@@ -83,6 +83,12 @@ pub mod error;
 pub mod image;
 pub mod interface;
 mod math;
+/// Refractive-index models: air, water, seawater, window materials, user
+/// formulas, and a stack builder. The C header generator skips this module (the
+/// line below tells it so); the C ABI reaches it only through `capi`.
+///
+/// cbindgen:ignore
+pub mod media;
 pub mod path;
 pub mod stack;
 pub mod vector;
@@ -96,6 +102,10 @@ pub use batch::{BatchReport, NoStatus, StatusSink};
 pub use error::{Error, Result, Status};
 pub use image::{apparent_depth, apparent_position, true_depth, true_position, Image};
 pub use interface::{critical_angle, fresnel, refract, Fresnel};
+pub use media::{
+    Air, Cauchy, Footing, IndexSample, Material, Medium, PureWater, Seawater, Sellmeier,
+    StackBuilder,
+};
 pub use path::{line_of_sight, line_of_sight_with, trace, Path, SolveOptions, Traced};
 pub use stack::{Layer, Region, Stack, MAX_LAYERS};
 pub use vector::{Ray, Vec3};
