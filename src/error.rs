@@ -33,12 +33,14 @@ pub enum Status {
     BufferTooSmall = 8,
     /// A caught panic: a bug in flatray, reported instead of aborting.
     Internal = 9,
+    /// Geometry that fixes no answer: parallel lines of sight, a single view.
+    Degenerate = 10,
 }
 
 impl Status {
     /// Every status, in code order.
     /// cbindgen:ignore
-    pub const ALL: [Status; 10] = [
+    pub const ALL: [Status; 11] = [
         Status::Ok,
         Status::NullPointer,
         Status::InvalidArgument,
@@ -49,6 +51,7 @@ impl Status {
         Status::OutOfRange,
         Status::BufferTooSmall,
         Status::Internal,
+        Status::Degenerate,
     ];
 
     /// The numeric code (the value of the C enum constant).
@@ -70,6 +73,7 @@ impl Status {
             7 => Status::OutOfRange,
             8 => Status::BufferTooSmall,
             9 => Status::Internal,
+            10 => Status::Degenerate,
             _ => return None,
         })
     }
@@ -87,6 +91,7 @@ impl Status {
             Status::OutOfRange => c"outside the model's validity range, or a result too large to represent",
             Status::BufferTooSmall => c"an output buffer is smaller than the call needs",
             Status::Internal => c"internal error: a bug in flatray was caught; please report it",
+            Status::Degenerate => c"degenerate geometry: it fixes no answer (fewer than two views, or parallel lines of sight)",
         }
     }
 
@@ -131,6 +136,9 @@ pub enum Error {
     /// See [`Status::BufferTooSmall`].
     #[error("buffer too small: {0}")]
     BufferTooSmall(&'static str),
+    /// See [`Status::Degenerate`].
+    #[error("degenerate geometry: {0}")]
+    Degenerate(&'static str),
 }
 
 impl Error {
@@ -144,6 +152,7 @@ impl Error {
             Error::NotConverged(_) => Status::NotConverged,
             Error::OutOfRange(_) => Status::OutOfRange,
             Error::BufferTooSmall(_) => Status::BufferTooSmall,
+            Error::Degenerate(_) => Status::Degenerate,
         }
     }
 
@@ -156,7 +165,8 @@ impl Error {
             | Error::WrongSide(s)
             | Error::NotConverged(s)
             | Error::OutOfRange(s)
-            | Error::BufferTooSmall(s) => s,
+            | Error::BufferTooSmall(s)
+            | Error::Degenerate(s) => s,
         }
     }
 }

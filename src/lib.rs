@@ -82,6 +82,7 @@ pub mod capi;
 pub mod error;
 pub mod image;
 pub mod interface;
+pub mod lines;
 mod math;
 /// Refractive-index models: air, water, seawater, window materials, user
 /// formulas, and a stack builder. The C header generator skips this module (the

@@ -605,10 +605,10 @@ static void test_constants_and_version(void)
 
 static void test_status_messages(void)
 {
-    const char *msgs[10];
-    const int32_t unknown[] = { -1, 10, 11, 100, 12345, INT32_MIN, INT32_MAX };
+    const char *msgs[11];
+    const int32_t unknown[] = { -1, 11, 100, 12345, INT32_MIN, INT32_MAX };
     int i, j;
-    for (i = 0; i <= 9; i++) {
+    for (i = 0; i <= 10; i++) {
         set_context("status code %d", i);
         msgs[i] = flatray_status_message(i);
         CHECK(msgs[i] != NULL);
@@ -617,8 +617,8 @@ static void test_status_messages(void)
         CHECK(strlen(msgs[i]) > 0);
     }
     /* Every defined code has its own message. */
-    for (i = 0; i <= 9; i++)
-        for (j = i + 1; j <= 9; j++) {
+    for (i = 0; i <= 10; i++)
+        for (j = i + 1; j <= 10; j++) {
             set_context("status codes %d and %d", i, j);
             CHECK(strcmp(msgs[i], msgs[j]) != 0);
         }

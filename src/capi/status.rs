@@ -30,6 +30,8 @@ pub enum FlatrayStatus {
     FLATRAY_ERR_BUFFER_TOO_SMALL = 8,
     /// A caught panic: a bug, reported, never an abort.
     FLATRAY_ERR_INTERNAL = 9,
+    /// Geometry that fixes no answer: parallel lines of sight, one view.
+    FLATRAY_ERR_DEGENERATE = 10,
 }
 
 impl From<Status> for FlatrayStatus {
@@ -45,6 +47,7 @@ impl From<Status> for FlatrayStatus {
             Status::OutOfRange => FlatrayStatus::FLATRAY_ERR_OUT_OF_RANGE,
             Status::BufferTooSmall => FlatrayStatus::FLATRAY_ERR_BUFFER_TOO_SMALL,
             Status::Internal => FlatrayStatus::FLATRAY_ERR_INTERNAL,
+            Status::Degenerate => FlatrayStatus::FLATRAY_ERR_DEGENERATE,
         }
     }
 }

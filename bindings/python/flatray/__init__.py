@@ -31,6 +31,7 @@ from ._types import (
 )
 from .errors import (
     BufferTooSmallError,
+    DegenerateError,
     FlatrayError,
     InternalError,
     InvalidArgumentError,
@@ -70,6 +71,7 @@ __all__ = [
     "FlatrayError", "NullPointerError", "InvalidArgumentError",
     "TotalInternalReflectionError", "MissesInterfaceError", "WrongSideError",
     "NotConvergedError", "OutOfRangeError", "BufferTooSmallError", "InternalError",
+    "DegenerateError",
     "LibraryLoadError",
     "Stack", "Fresnel", "refract", "fresnel", "critical_angle", "critical_angle_deg",
     "Traced", "Path", "trace", "line_of_sight",

@@ -28,6 +28,7 @@ class Status(enum.IntEnum):
     OUT_OF_RANGE = 7
     BUFFER_TOO_SMALL = 8
     INTERNAL = 9
+    DEGENERATE = 10
 
     @property
     def c_name(self) -> str:

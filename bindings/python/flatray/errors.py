@@ -105,6 +105,13 @@ class InternalError(FlatrayError):
     code = Status.INTERNAL
 
 
+class DegenerateError(FlatrayError):
+    """Geometry that fixes no answer: parallel lines of sight, a single view
+    (``FLATRAY_ERR_DEGENERATE``)."""
+
+    code = Status.DEGENERATE
+
+
 #: The exception class raised for each non-OK status.
 ERROR_CLASSES: dict[Status, type[FlatrayError]] = {
     cls.code: cls
@@ -118,6 +125,7 @@ ERROR_CLASSES: dict[Status, type[FlatrayError]] = {
         OutOfRangeError,
         BufferTooSmallError,
         InternalError,
+        DegenerateError,
     )
 }
 

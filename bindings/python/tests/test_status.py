@@ -19,12 +19,13 @@ EXPECTED_CLASSES = {
     Status.OUT_OF_RANGE: flatray.OutOfRangeError,
     Status.BUFFER_TOO_SMALL: flatray.BufferTooSmallError,
     Status.INTERNAL: flatray.InternalError,
+    Status.DEGENERATE: flatray.DegenerateError,
 }
 
 
 def test_status_values_are_the_header_values():
-    # include/flatray.h: FLATRAY_OK = 0 ... FLATRAY_ERR_INTERNAL = 9.
-    assert [int(s) for s in Status] == list(range(10))
+    # include/flatray.h: FLATRAY_OK = 0 ... FLATRAY_ERR_DEGENERATE = 10.
+    assert [int(s) for s in Status] == list(range(11))
     assert Status(3).c_name == "FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION"
     assert Status.OK.c_name == "FLATRAY_OK"
     assert int(flatray.Image.SAGITTAL) == 0 and int(flatray.Image.TANGENTIAL) == 1
@@ -39,7 +40,7 @@ def test_every_code_has_its_own_message():
     assert "total internal reflection" in flatray.status_message(3)
 
 
-@pytest.mark.parametrize("code", [10, 11, 255, -1, -(2**31), 2**31 - 1])
+@pytest.mark.parametrize("code", [11, 255, -1, -(2**31), 2**31 - 1])
 def test_unknown_codes_have_a_message(code):
     raw = flatray.lib.flatray_status_message(code)
     assert raw is not None
