@@ -6,10 +6,11 @@
 #   repository; build it first with `cargo build --release`).
 #
 # Runs, stopping at the first failure:
-#   1. the test program linked against the shared library (with an rpath);
+#   1. every test program bindings/c/test_*.c linked against the shared library
+#      (with an rpath);
 #   2. the example program, the same way;
-#   3. the test program linked against the static library;
-#   4. the shared-library test under valgrind, when valgrind is installed.
+#   3. every test program linked against the static library;
+#   4. the shared-library tests under valgrind, when valgrind is installed.
 # Outputs go to bindings/c/build/ (git-ignored).
 set -euo pipefail
 
@@ -41,27 +42,40 @@ shared=(-L "$libdir" -lflatray "-Wl,-rpath,$libdir" -lm)
 # `cargo rustc --release -- --print native-static-libs`).
 static=("$libdir/libflatray.a" -lgcc_s -lutil -lrt -lpthread -lm -ldl -lc)
 
+tests=()
+for src in "$here"/test_*.c; do
+    tests+=("$(basename "$src" .c)")
+done
+
 echo "== compile (shared library: $libdir/libflatray.so)"
-"$cc" "${cflags[@]}" -o "$build/test_flatray" "$here/test_flatray.c" "${shared[@]}"
+for t in "${tests[@]}"; do
+    "$cc" "${cflags[@]}" -o "$build/$t" "$here/$t.c" "${shared[@]}"
+done
 "$cc" "${cflags[@]}" -o "$build/example" "$here/example.c" "${shared[@]}"
 
-echo "== test (shared library)"
-"$build/test_flatray"
+for t in "${tests[@]}"; do
+    echo "== $t (shared library)"
+    "$build/$t"
+done
 
 echo "== example"
 "$build/example"
 
-echo "== test (static library: $libdir/libflatray.a)"
-"$cc" "${cflags[@]}" -o "$build/test_flatray_static" "$here/test_flatray.c" "${static[@]}"
-if ldd "$build/test_flatray_static" 2>/dev/null | grep -q 'libflatray\.so'; then
-    echo "run.sh: the static build links libflatray.so dynamically" >&2
-    exit 1
-fi
-"$build/test_flatray_static"
+for t in "${tests[@]}"; do
+    echo "== $t (static library: $libdir/libflatray.a)"
+    "$cc" "${cflags[@]}" -o "$build/${t}_static" "$here/$t.c" "${static[@]}"
+    if ldd "$build/${t}_static" 2>/dev/null | grep -q 'libflatray\.so'; then
+        echo "run.sh: the static build links libflatray.so dynamically" >&2
+        exit 1
+    fi
+    "$build/${t}_static"
+done
 
 if command -v valgrind >/dev/null 2>&1; then
-    echo "== test under valgrind (shared library)"
-    valgrind --error-exitcode=1 --leak-check=full --quiet "$build/test_flatray"
+    for t in "${tests[@]}"; do
+        echo "== $t under valgrind (shared library)"
+        valgrind --error-exitcode=1 --leak-check=full --quiet "$build/$t"
+    done
     echo "valgrind: no errors"
 else
     echo "== valgrind not installed: skipping the valgrind run"
