@@ -16,6 +16,24 @@ cargo clippy --all-targets -- -D warnings
 step "Rust: tests (unit, integration, property, doc)"
 cargo test
 
+step "Rust: the same tests with libm maths (what no_std firmware uses)"
+cargo test --features libm --tests --quiet
+
+step "Firmware: no_std builds (no heap, no std, the whole C ABI)"
+# The core as a no_std rlib on the host...
+cargo rustc --quiet --lib --no-default-features --features libm --crate-type rlib
+# ...and as a static library for a bare-metal Cortex-M target, when rustup can
+# provide the target (one download of its core library).
+fw_target=thumbv7em-none-eabihf
+if command -v rustup >/dev/null 2>&1 && { rustup target list --installed | grep -qx "$fw_target" || rustup target add "$fw_target" >/dev/null 2>&1; }; then
+  cargo build --quiet --release --lib --no-default-features --features libm,panic-handler --target "$fw_target" 2>&1 \
+    | grep -v "dropping unsupported crate type" || true
+  test -f "target/$fw_target/release/libflatray.a"
+  echo "built target/$fw_target/release/libflatray.a"
+else
+  echo "rustup cannot provide $fw_target here: checked the host no_std rlib only"
+fi
+
 step "Rust: documentation builds without warnings"
 RUSTDOCFLAGS="-D warnings" cargo doc --no-deps --quiet
 

@@ -49,8 +49,12 @@
 //! # Features
 //!
 //! * `std` (default): the standard library; the C ABI catches panics.
-//! * `libm`: pure-Rust maths for `#![no_std]` builds (use with
-//!   `--no-default-features`). One of the two is required.
+//! * `libm`: pure-Rust maths, required for `#![no_std]` builds (with
+//!   `--no-default-features`); with `std` it replaces std's maths. One of
+//!   `std` and `libm` is required.
+//! * `panic-handler`: a minimal `#[panic_handler]` for `no_std` static
+//!   libraries linked from C firmware (never reached: the library is
+//!   panic-free by construction).
 #![no_std]
 #![deny(missing_docs)]
 #![deny(unsafe_op_in_unsafe_fn)]
@@ -71,6 +75,9 @@
 
 #[cfg(feature = "std")]
 extern crate std;
+
+#[cfg(all(not(feature = "std"), feature = "panic-handler"))]
+mod panic_handler;
 
 #[cfg(not(any(feature = "std", feature = "libm")))]
 compile_error!(

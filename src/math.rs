@@ -1,12 +1,15 @@
 //! Floating-point functions, from `std` when it is on and from `libm` otherwise.
 //!
 //! The physics core calls only these, so the same code builds for firmware
-//! (`--no-default-features --features libm`) and for hosts.
+//! (`--no-default-features --features libm`) and for hosts. With the `libm`
+//! feature the libm functions are used even when `std` is on: the test suite
+//! runs that way too (`cargo test --features libm`) to show both give the same
+//! results.
 
 // A table of functions shared by every module; a build need not use all of them.
 #![allow(dead_code)]
 
-#[cfg(feature = "std")]
+#[cfg(all(feature = "std", not(feature = "libm")))]
 mod imp {
     #[inline]
     pub fn sqrt(x: f64) -> f64 {
@@ -70,7 +73,7 @@ mod imp {
     }
 }
 
-#[cfg(all(not(feature = "std"), feature = "libm"))]
+#[cfg(feature = "libm")]
 mod imp {
     #[inline]
     pub fn sqrt(x: f64) -> f64 {
