@@ -25,14 +25,6 @@
 #define FLATRAY_MAX_LAYERS 8
 
 /*
- Smallest pivot of the normal equations, relative to the number of lines,
- below which the lines count as parallel: lines within about 1e-6 rad of
- parallel (pivot ≈ α²/2 per pair) fix no point to better than 1e6 times their
- scale, which no survey or camera can use.
- */
-#define PARALLEL_PIVOT 1e-12
-
-/*
  Outcome of every fallible C function. The values are fixed and never
  renumbered; later versions only append.
  */

@@ -20,7 +20,7 @@
 //! when viewing along the normal.
 
 use crate::error::{finite, positive, representable, Error, Result};
-use crate::interface::n_cos_in;
+use crate::interface::continue_into;
 use crate::math;
 use crate::path::{solve, SolveOptions, Solved};
 use crate::stack::Stack;
@@ -47,20 +47,17 @@ impl Image {
     }
 
     /// Depth factor of one medium: the image depth per metre of true depth in a
-    /// medium with `n_k cos θ_k = ncos_k`, seen from a medium with
-    /// `n_0 cos θ_0 = ncos_0`.
+    /// medium `k`, seen from medium 0, given `η = n_k / n_0` and projections
+    /// `p_0 ∝ n_0 cos θ_0`, `p_k ∝ n_k cos θ_k` (any common scale).
     ///
-    /// Sagittal `ncos_0/ncos_k`; tangential `(ncos_0/ncos_k)³ (n_k/n_0)²`
-    /// (the module formulas with `n cos θ` factored out).
+    /// Sagittal `p_0/p_k`; tangential `(p_0/p_k)³ η²` (the module formulas with
+    /// `n cos θ` factored out).
     #[inline]
-    pub(crate) fn factor(self, n_0: f64, ncos_0: f64, n_k: f64, ncos_k: f64) -> f64 {
-        let r = ncos_0 / ncos_k;
+    pub(crate) fn factor(self, eta: f64, p_0: f64, p_k: f64) -> f64 {
+        let r = p_0 / p_k;
         match self {
             Image::Sagittal => r,
-            Image::Tangential => {
-                let m = n_k / n_0;
-                r * r * r * m * m
-            }
+            Image::Tangential => r * r * r * eta * eta,
         }
     }
 }
@@ -101,7 +98,7 @@ pub(crate) fn apparent_from(stack: &Stack, s: &Solved, object: Vec3, image: Imag
     // for n cos θ in the depth factors.
     let depth: f64 = s
         .beyond_observer()
-        .map(|(h, n, d)| h * image.factor(n0, d0, n, d))
+        .map(|(h, n, d)| h * image.factor(n / n0, d0, d))
         .sum();
     let normal = stack.normal();
     let apparent = match image {
@@ -173,37 +170,29 @@ pub fn true_position(stack: &Stack, observer: Vec3, apparent: Vec3, image: Image
             "the line of sight to the apparent point does not cross the first interface",
         ));
     }
+    // Per medium, relative to the observer's index n0 (see
+    // `interface::continue_into`): η = n/n0, q = n cos θ / n0, tan θ = sin θ0 / q.
     let n0 = stack.n_observer();
-    let ncos0 = n0 * cos0;
-    let crossing = |n: f64| -> Result<f64> {
-        match n_cos_in(n0, ncos0, n) {
-            Some(v) if v > 0.0 => Ok(v),
-            _ => Err(Error::TotalInternalReflection(
-                "the line of sight cannot cross every interface of the stack",
-            )),
-        }
-    };
     let tangential = d - normal * cos0; // length sin θ0
     let entry = observer + d * (-h_obs / cos0);
     let mut exit = entry;
     let mut layer_depth = 0.0;
     for layer in stack.layers() {
-        let ncos = crossing(layer.index)?;
-        layer_depth += layer.thickness * image.factor(n0, ncos0, layer.index, ncos);
-        exit += tangential * (n0 * layer.thickness / ncos) + normal * layer.thickness;
+        let (eta, q) = continue_into(layer.index, n0, cos0)?;
+        layer_depth += layer.thickness * image.factor(eta, cos0, q);
+        exit += tangential * (layer.thickness / q) + normal * layer.thickness;
     }
-    let n_x = stack.n_object();
-    let ncos_x = crossing(n_x)?;
+    let (eta_x, q_x) = continue_into(stack.n_object(), n0, cos0)?;
     let remaining = z_a - layer_depth;
     if remaining < 0.0 {
         return Err(Error::WrongSide(
             "the apparent point is too shallow to be the image of a point in the object's medium",
         ));
     }
-    let depth_x = remaining / image.factor(n0, ncos0, n_x, ncos_x);
+    let depth_x = remaining / image.factor(eta_x, cos0, q_x);
     let truth = match image {
         Image::Sagittal => apparent + normal * (stack.total_thickness() + depth_x - z_a),
-        Image::Tangential => exit + (tangential * (n0 / ncos_x) + normal) * depth_x,
+        Image::Tangential => exit + (tangential * (1.0 / q_x) + normal) * depth_x,
     };
     if truth.is_finite() {
         Ok(truth)
@@ -230,12 +219,13 @@ fn single_interface_factor(
     }
     let n0 = positive(n_observer, "n_observer must be finite and > 0")?;
     let n1 = positive(n_object, "n_object must be finite and > 0")?;
-    let ncos0 = n0 * math::cos(view_angle);
-    match n_cos_in(n0, ncos0, n1) {
-        Some(ncos1) if ncos1 > 0.0 => Ok(image.factor(n0, ncos0, n1, ncos1)),
-        _ => Err(Error::TotalInternalReflection(
+    let cos0 = math::cos(view_angle);
+    match continue_into(n1, n0, cos0) {
+        Ok((eta, q)) => Ok(image.factor(eta, cos0, q)),
+        Err(Error::TotalInternalReflection(_)) => Err(Error::TotalInternalReflection(
             "no ray from the object's medium reaches the observer at this view angle",
         )),
+        Err(e) => Err(e),
     }
 }
 

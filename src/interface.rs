@@ -10,19 +10,60 @@ use crate::error::{positive, Error, Result};
 use crate::math;
 use crate::vector::Vec3;
 
-/// `n_t cos θ_t` for a ray of ray parameter `p = n_i sin θ_i` entering a medium of
-/// index `n_t`, computed without cancellation when `n_t >= n_i`:
-///
-/// `(n_t cos θ_t)² = n_t² − p² = (n_t − n_i)(n_t + n_i) + (n_i cos θ_i)²`.
-///
-/// Returns `None` beyond the critical angle (the square is negative).
+/// Largest ratio of two refractive indices flatray computes with (and the
+/// reciprocal the smallest). Real media span ratios below 10; beyond 1e100 the
+/// squares in the formulas would overflow, so such inputs are
+/// [`Error::OutOfRange`] rather than a silently wrong result.
+pub const MAX_INDEX_RATIO: f64 = 1e100;
+
+/// The index ratio `η = n_t / n_i`, checked against [`MAX_INDEX_RATIO`].
 #[inline]
-pub(crate) fn n_cos_in(n_i: f64, n_i_cos_i: f64, n_t: f64) -> Option<f64> {
-    let sq = (n_t - n_i) * (n_t + n_i) + n_i_cos_i * n_i_cos_i;
+pub(crate) fn index_ratio(n_t: f64, n_i: f64) -> Result<f64> {
+    let eta = n_t / n_i;
+    if (1.0 / MAX_INDEX_RATIO..=MAX_INDEX_RATIO).contains(&eta) {
+        Ok(eta)
+    } else {
+        Err(Error::OutOfRange(
+            "the ratio of two refractive indices is beyond 1e100",
+        ))
+    }
+}
+
+/// `q = n_t cos θ_t / n_i` for light crossing from index `n_i` into
+/// `n_t = η n_i` at incidence cosine `cos_i` (Snell's law):
+///
+/// `q² = η² − sin² θ_i = (η − 1)(η + 1) + cos² θ_i`,
+///
+/// written relative to `n_i` so that no index is squared (tiny or huge indices
+/// cannot underflow or overflow) and without cancellation when `η >= 1`.
+/// Returns `None` beyond the critical angle (`q² < 0`).
+#[inline]
+pub(crate) fn projected_ratio(eta: f64, cos_i: f64) -> Option<f64> {
+    let sq = (eta - 1.0) * (eta + 1.0) + cos_i * cos_i;
     if sq >= 0.0 {
         Some(math::sqrt(sq))
     } else {
         None
+    }
+}
+
+/// How a ray with incidence cosine `cos0` in a medium of index `n_0` continues
+/// into a parallel medium of index `n`: `(η, q)` with `η = n / n_0` and
+/// `q = n cos θ / n_0` ([`projected_ratio`]), the same in every medium of a flat
+/// stack because `n sin θ` is (Snell's law).
+///
+/// # Errors
+/// [`Error::TotalInternalReflection`] when the ray cannot enter the medium (or
+/// would only graze it, `q = 0`); [`Error::OutOfRange`] for an index ratio
+/// beyond [`MAX_INDEX_RATIO`].
+#[inline]
+pub(crate) fn continue_into(n: f64, n_0: f64, cos0: f64) -> Result<(f64, f64)> {
+    let eta = index_ratio(n, n_0)?;
+    match projected_ratio(eta, cos0) {
+        Some(q) if q > 0.0 => Ok((eta, q)),
+        _ => Err(Error::TotalInternalReflection(
+            "the ray cannot cross an interface of the stack",
+        )),
     }
 }
 
@@ -41,6 +82,7 @@ pub(crate) fn n_cos_in(n_i: f64, n_i_cos_i: f64, n_t: f64) -> Option<f64> {
 ///   or `normal`; an index that is not finite and > 0.
 /// * [`Error::MissesInterface`]: `direction` lies in the interface plane.
 /// * [`Error::TotalInternalReflection`]: beyond the critical angle.
+/// * [`Error::OutOfRange`]: indices whose ratio exceeds [`MAX_INDEX_RATIO`].
 ///
 /// # Example
 /// ```
@@ -68,10 +110,12 @@ pub fn refract(direction: Vec3, normal: Vec3, n_from: f64, n_to: f64) -> Result<
         ));
     }
     let tangential = d - n * cos_i;
-    let n_cos_t = n_cos_in(n_from, n_from * cos_i, n_to).ok_or(Error::TotalInternalReflection(
+    let eta = index_ratio(n_to, n_from)?;
+    let q = projected_ratio(eta, cos_i).ok_or(Error::TotalInternalReflection(
         "the incidence angle is beyond the critical angle",
     ))?;
-    let t = tangential * (n_from / n_to) + n * (n_cos_t / n_to);
+    // t̂ = (d̂ − cos θ_i n̂)/η + (n_to cos θ_t / n_to) n̂, and n_to cos θ_t / n_to = q/η.
+    let t = (tangential + n * q) * (1.0 / eta);
     // |t| = 1 up to rounding; renormalise so the output is unit to the last bit.
     t.direction("refracted direction underflowed")
 }
@@ -121,28 +165,20 @@ impl Fresnel {
         t: 0.0,
     };
 
-    /// Coefficients from `n_i cos θ_i` and `n_t cos θ_t` on each side, plus the
-    /// indices (Hecht eqs. 4.42–4.45 squared, and `T = 1 − R` written out):
+    /// Coefficients from the projections `a ∝ n_i cos θ_i` and `b ∝ n_t cos θ_t`
+    /// and the index ratio `η = n_t / n_i` (any common scale of `a` and `b`
+    /// cancels). Hecht eqs. 4.42–4.45 squared, with `T = 1 − R` written out:
     ///
-    /// `Rs = ((n_i cos θ_i − n_t cos θ_t)/(n_i cos θ_i + n_t cos θ_t))²`,
-    /// `Ts = 4 n_i cos θ_i n_t cos θ_t / (n_i cos θ_i + n_t cos θ_t)²`,
-    /// `Rp = ((n_t² n_i cos θ_i − n_i² n_t cos θ_t)/(n_t² n_i cos θ_i + n_i² n_t cos θ_t))²`,
-    /// `Tp = 4 n_i² n_t² (n_i cos θ_i)(n_t cos θ_t) / (n_t² n_i cos θ_i + n_i² n_t cos θ_t)²`.
+    /// `Rs = ((a − b)/(a + b))²`, `Ts = 4ab/(a + b)²`;
+    /// with `x = η a` and `y = b/η` (Hecht's `n_t cos θ_i` and `n_i cos θ_t`,
+    /// scaled by `n_i`): `Rp = ((x − y)/(x + y))²`, `Tp = 4xy/(x + y)²`.
     ///
-    /// (The p forms are Hecht's `(n_t cos θ_i − n_i cos θ_t)/(n_t cos θ_i + n_i cos θ_t)`
-    /// multiplied through by `n_i n_t`.) Requires both products >= 0, not both 0.
+    /// Each pair is divided by its larger member first, so nothing overflows.
+    /// Requires `a, b >= 0`, not both 0, and `η` within [`MAX_INDEX_RATIO`].
     #[inline]
-    pub(crate) fn from_projections(n_i: f64, a: f64, n_t: f64, b: f64) -> Fresnel {
-        let s_den = a + b;
-        let s_diff = (a - b) / s_den;
-        let rs = s_diff * s_diff;
-        let ts = 4.0 * a * b / (s_den * s_den);
-        let pa = n_t * n_t * a;
-        let pb = n_i * n_i * b;
-        let p_den = pa + pb;
-        let p_diff = (pa - pb) / p_den;
-        let rp = p_diff * p_diff;
-        let tp = 4.0 * pa * pb / (p_den * p_den);
+    pub(crate) fn from_projections(eta: f64, a: f64, b: f64) -> Fresnel {
+        let (rs, ts) = reflect_transmit(a, b);
+        let (rp, tp) = reflect_transmit(eta * a, b / eta);
         Fresnel {
             rs,
             rp,
@@ -152,6 +188,17 @@ impl Fresnel {
             t: 0.5 * (ts + tp),
         }
     }
+}
+
+/// `(((u − v)/(u + v))², 4uv/(u + v)²)` for `u, v >= 0` not both zero, scaled
+/// by the larger so that neither the sum nor the products overflow.
+#[inline]
+fn reflect_transmit(u: f64, v: f64) -> (f64, f64) {
+    let m = u.max(v);
+    let (u, v) = (u / m, v / m);
+    let sum = u + v;
+    let diff = (u - v) / sum;
+    (diff * diff, 4.0 * u * v / (sum * sum))
 }
 
 /// Fresnel power coefficients for light meeting a flat interface from a medium
@@ -165,7 +212,8 @@ impl Fresnel {
 ///
 /// # Errors
 /// [`Error::InvalidArgument`] when `cos_incidence` is outside `[0, 1]` or NaN,
-/// or an index is not finite and > 0.
+/// or an index is not finite and > 0; [`Error::OutOfRange`] when the ratio of
+/// the indices exceeds [`MAX_INDEX_RATIO`].
 ///
 /// # Example
 /// ```
@@ -181,28 +229,23 @@ pub fn fresnel(cos_incidence: f64, n_from: f64, n_to: f64) -> Result<Fresnel> {
     }
     let n_from = positive(n_from, "n_from must be finite and > 0")?;
     let n_to = positive(n_to, "n_to must be finite and > 0")?;
-    Ok(fresnel_unchecked(n_from, n_from * cos_incidence, n_to))
-}
-
-/// [`fresnel`] for validated indices, from `n_i cos θ_i`.
-#[inline]
-pub(crate) fn fresnel_unchecked(n_i: f64, n_i_cos_i: f64, n_t: f64) -> Fresnel {
-    if n_i == n_t {
-        return Fresnel {
+    if n_from == n_to {
+        return Ok(Fresnel {
             rs: 0.0,
             rp: 0.0,
             ts: 1.0,
             tp: 1.0,
             r: 0.0,
             t: 1.0,
-        };
+        });
     }
-    match n_cos_in(n_i, n_i_cos_i, n_t) {
-        Some(n_t_cos_t) if n_i_cos_i > 0.0 || n_t_cos_t > 0.0 => {
-            Fresnel::from_projections(n_i, n_i_cos_i, n_t, n_t_cos_t)
+    let eta = index_ratio(n_to, n_from)?;
+    Ok(match projected_ratio(eta, cos_incidence) {
+        Some(q) if cos_incidence > 0.0 || q > 0.0 => {
+            Fresnel::from_projections(eta, cos_incidence, q)
         }
         _ => Fresnel::TOTAL_REFLECTION,
-    }
+    })
 }
 
 /// The critical angle, radians, for light going from `n_from` into a less dense

@@ -8,7 +8,7 @@
 //! medium `k` (see [`crate::interface`]).
 
 use crate::error::{representable, Error, Result};
-use crate::interface::{n_cos_in, Fresnel};
+use crate::interface::{continue_into, index_ratio, Fresnel};
 use crate::math;
 use crate::stack::{Stack, MAX_LAYERS};
 use crate::vector::{Ray, Vec3};
@@ -72,30 +72,31 @@ pub fn trace(stack: &Stack, observer_ray: Ray) -> Result<Traced> {
             "the ray is parallel to the interfaces or points away from the stack",
         ));
     }
+    // Everything per medium is relative to the observer's index n0 (see
+    // `continue_into`): η = n/n0, q = n cos θ / n0, tan θ = sin θ0 / q.
     let n0 = stack.n_observer();
-    let n0_cos0 = n0 * cos0;
     let tangential = d - normal * cos0; // length sin θ0
     let mut position = origin + d * (-h0 / cos0);
     let mut prev_n = n0;
-    let mut prev_ncos = n0_cos0;
+    let mut prev_q = cos0;
     let mut prod_ts = 1.0;
     let mut prod_tp = 1.0;
     for layer in stack.layers() {
-        let ncos = crossing(n0, n0_cos0, layer.index)?;
-        let f = Fresnel::from_projections(prev_n, prev_ncos, layer.index, ncos);
+        let (_, q) = continue_into(layer.index, n0, cos0)?;
+        let f = Fresnel::from_projections(index_ratio(layer.index, prev_n)?, prev_q, q);
         prod_ts *= f.ts;
         prod_tp *= f.tp;
-        // Lateral advance per metre of depth: tan θ = n0 sin θ0 / (n cos θ).
-        position += tangential * (n0 * layer.thickness / ncos) + normal * layer.thickness;
+        position += tangential * (layer.thickness / q) + normal * layer.thickness;
         prev_n = layer.index;
-        prev_ncos = ncos;
+        prev_q = q;
     }
     let n_x = stack.n_object();
-    let ncos_x = crossing(n0, n0_cos0, n_x)?;
-    let f = Fresnel::from_projections(prev_n, prev_ncos, n_x, ncos_x);
+    let (eta_x, q_x) = continue_into(n_x, n0, cos0)?;
+    let f = Fresnel::from_projections(index_ratio(n_x, prev_n)?, prev_q, q_x);
     prod_ts *= f.ts;
     prod_tp *= f.tp;
-    let direction = (tangential * (n0 / n_x) + normal * (ncos_x / n_x))
+    // As in `refract`: t̂ = (tangential + q n̂)/η, renormalised to the last bit.
+    let direction = ((tangential + normal * q_x) * (1.0 / eta_x))
         .direction("refracted direction underflowed")?;
     if !position.is_finite() {
         return Err(Error::OutOfRange(
@@ -106,18 +107,6 @@ pub fn trace(stack: &Stack, observer_ray: Ray) -> Result<Traced> {
         ray: Ray::new(position, direction),
         transmittance: 0.5 * (prod_ts + prod_tp),
     })
-}
-
-/// `n cos θ` in a medium of index `n` for a ray with `n0 cos θ0` in the
-/// observer's medium; total internal reflection when the ray cannot cross.
-#[inline]
-fn crossing(n0: f64, n0_cos0: f64, n: f64) -> Result<f64> {
-    match n_cos_in(n0, n0_cos0, n) {
-        Some(v) if v > 0.0 => Ok(v),
-        _ => Err(Error::TotalInternalReflection(
-            "the ray cannot cross an interface of the stack",
-        )),
-    }
 }
 
 /// The light path between an observer and an object through a stack.
@@ -185,8 +174,8 @@ impl Default for SolveOptions {
 ///
 /// Medium 0 is the observer's, then the layers, then the object's. The solve
 /// variable is `u = tan θ_m` in the medium of lowest index `n_m`; then in any
-/// medium `k`, with `D_k = √(n_k² + (n_k² − n_m²) u²)`:
-/// `tan θ_k = n_m u / D_k` and `n_k cos θ_k ∝ D_k` (the same factor
+/// medium `k`, with `ν_k = n_k / n_m` and `D_k = √(ν_k² + (ν_k² − 1) u²)`:
+/// `tan θ_k = u / D_k` and `n_k cos θ_k ∝ D_k` (the same factor
 /// `1/√(1 + u²)` for every medium), which stay accurate at grazing angles.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Solved {
@@ -198,8 +187,6 @@ pub(crate) struct Solved {
     pub h: [f64; MAX_MEDIA],
     /// `D_k` of each medium at the solution.
     pub d: [f64; MAX_MEDIA],
-    /// Lowest index of all media.
-    pub n_min: f64,
     /// The solved `u = tan θ` in the lowest-index medium.
     pub u: f64,
     /// Unit lateral direction from observer toward object (zero when the object
@@ -214,7 +201,7 @@ impl Solved {
     #[inline]
     pub fn tan(&self, k: usize) -> f64 {
         let d = self.d.get(k).copied().unwrap_or(f64::NAN);
-        self.n_min * self.u / d
+        self.u / d
     }
 
     /// The media after the observer's: `(h_k, n_k, D_k)` of each layer and the
@@ -278,16 +265,26 @@ pub(crate) fn solve(
     let depth_scale: f64 = h.iter().take(count).sum();
     representable(depth_scale, "observer and object are too far apart")?;
 
-    // b_k = n_k² − n_m² >= 0, exact in its factored form.
+    // Indices relative to the lowest, ν_k = n_k / n_m >= 1 (no index is squared,
+    // so tiny or huge indices cannot underflow or overflow), and
+    // b_k = ν_k² − 1 >= 0, exact in its factored form.
+    let mut nu = [1.0; MAX_MEDIA];
     let mut b = [0.0; MAX_MEDIA];
     let mut linear_height = 0.0; // Σ h_k over media with n_k = n_m
-    let mut bound = 0.0; // sup F = n_m Σ h_k / √b_k over the other media
-    for ((b_k, &n_k), &h_k) in b.iter_mut().zip(n.iter()).zip(h.iter()).take(count) {
-        *b_k = (n_k - n_min) * (n_k + n_min);
+    let mut bound = 0.0; // sup F = Σ h_k / √b_k over the other media
+    for (((nu_k, b_k), &n_k), &h_k) in nu
+        .iter_mut()
+        .zip(b.iter_mut())
+        .zip(n.iter())
+        .zip(h.iter())
+        .take(count)
+    {
+        *nu_k = index_ratio(n_k, n_min)?;
+        *b_k = (*nu_k - 1.0) * (*nu_k + 1.0);
         if *b_k == 0.0 {
             linear_height += h_k;
         } else {
-            bound += n_min * h_k / math::sqrt(*b_k);
+            bound += h_k / math::sqrt(*b_k);
         }
     }
     if linear_height == 0.0 && target >= bound {
@@ -296,8 +293,8 @@ pub(crate) fn solve(
         ));
     }
 
-    // F(u) = n_m u Σ h_k / D_k is increasing and concave in u (each term is
-    // u/√(a + b u²) or linear), F(0) = 0. Newton's method from u = 0 therefore
+    // F(u) = u Σ h_k / D_k, D_k = √(ν_k² + b_k u²), is increasing and concave
+    // in u (each term is u/√(a + b u²) or linear), F(0) = 0. Newton's method from u = 0 therefore
     // climbs monotonically to the root (the tangent of a concave function lies
     // above it), needing no bracket: each step is a safe under-estimate.
     let tolerance = options.relative_tolerance * (target + depth_scale);
@@ -314,18 +311,18 @@ pub(crate) fn solve(
         let mut f = 0.0;
         let mut df = 0.0;
         let u2 = u * u;
-        for ((&n_k, &h_k), &b_k) in n.iter().zip(h.iter()).zip(b.iter()).take(count) {
-            let a_k = n_k * n_k;
+        for ((&nu_k, &h_k), &b_k) in nu.iter().zip(h.iter()).zip(b.iter()).take(count) {
+            let a_k = nu_k * nu_k;
             let d_k = math::sqrt(a_k + b_k * u2);
             f += h_k / d_k;
             df += h_k * a_k / (d_k * d_k * d_k);
         }
-        let residual = target - n_min * u * f;
+        let residual = target - u * f;
         if residual <= tolerance {
             converged = true;
             continue;
         }
-        let next = u + residual / (n_min * df);
+        let next = u + residual / df;
         if next <= u || !next.is_finite() || next > 1e150 {
             // No more progress in floating point: accept only if close.
             if residual <= 1e3 * tolerance {
@@ -341,18 +338,17 @@ pub(crate) fn solve(
 
     let mut d = [1.0; MAX_MEDIA];
     let u2 = u * u;
-    for ((d_k, &n_k), &b_k) in d.iter_mut().zip(n.iter()).zip(b.iter()).take(count) {
-        *d_k = math::sqrt(n_k * n_k + b_k * u2);
+    for ((d_k, &nu_k), &b_k) in d.iter_mut().zip(nu.iter()).zip(b.iter()).take(count) {
+        *d_k = math::sqrt(nu_k * nu_k + b_k * u2);
     }
     let h0 = h.first().copied().unwrap_or(0.0);
-    let tan0 = n_min * u / d.first().copied().unwrap_or(1.0);
+    let tan0 = u / d.first().copied().unwrap_or(1.0);
     let entry = observer + (lateral_dir * tan0 + normal) * h0;
     Ok(Solved {
         count,
         n,
         h,
         d,
-        n_min,
         u,
         lateral_dir,
         entry,
@@ -414,10 +410,10 @@ pub fn line_of_sight_with(
 /// Assemble the [`Path`] of a solved line of sight.
 pub(crate) fn path_from(stack: &Stack, s: &Solved) -> Result<Path> {
     let normal = stack.normal();
-    let m_u = s.n_min * s.u;
+    let u = s.u;
     let d0 = s.d.first().copied().unwrap_or(1.0);
-    // Unit direction in medium k: (n_m u ê + D_k n̂) / √((n_m u)² + D_k²).
-    let direction = (s.lateral_dir * m_u + normal * d0).direction("direction underflowed")?;
+    // Unit direction in medium k: (u ê + D_k n̂) / √(u² + D_k²).
+    let direction = (s.lateral_dir * u + normal * d0).direction("direction underflowed")?;
     let mut exit = s.entry;
     let mut geometric = 0.0;
     let mut optical = 0.0;
@@ -431,20 +427,20 @@ pub(crate) fn path_from(stack: &Stack, s: &Solved) -> Result<Path> {
             .take(s.count)
             .enumerate()
     {
-        // Segment length h_k / cos θ_k with 1/cos θ_k = √((n_m u)² + D_k²) / D_k.
-        let seg = h_k * math::hypot(m_u / d_k, 1.0);
+        // Segment length h_k / cos θ_k with 1/cos θ_k = √(u² + D_k²) / D_k.
+        let seg = h_k * math::hypot(u / d_k, 1.0);
         geometric += seg;
         optical += n_k * seg;
         if let Some((n_prev, d_prev)) = prev {
             // n cos θ is proportional to D in every medium; the Fresnel
             // coefficients depend only on the ratio.
-            let f = Fresnel::from_projections(n_prev, d_prev, n_k, d_k);
+            let f = Fresnel::from_projections(index_ratio(n_k, n_prev)?, d_prev, d_k);
             prod_ts *= f.ts;
             prod_tp *= f.tp;
         }
         prev = Some((n_k, d_k));
         if k > 0 && k + 1 < s.count {
-            exit += (s.lateral_dir * (m_u / d_k) + normal) * h_k;
+            exit += (s.lateral_dir * (u / d_k) + normal) * h_k;
         }
     }
     let path = Path {

@@ -1,0 +1,74 @@
+//! Inputs found by the fuzzers (fuzz/), kept as regression tests.
+//!
+//! Each case is the decoded form of a crash artifact; the comment says what
+//! went wrong before the fix.
+
+use flatray::capi::*;
+use flatray::{refract, Error, Ray, Vec3};
+
+/// Equal tiny indices (1e-300): the squared indices underflowed to zero and the
+/// refracted direction came out wrong with an OK status. Fixed by computing
+/// with index ratios (`interface::projected_ratio`).
+#[test]
+fn tiny_equal_indices_leave_the_direction_unchanged() {
+    let d = Vec3::new(0.023_430_606_618_057_93, 1e-300, f64::MAX);
+    let n = Vec3::new(1e-300, 1e-300, 1e-300);
+    let t = refract(d, n, 1e-300, 1e-300).unwrap();
+    let expected = d.try_normalize().unwrap();
+    assert!((t - expected).length() < 1e-15, "{t:?}");
+}
+
+/// An observer's index of 1e-300 against layers of about 2: the index ratio
+/// 2e300 overflowed the Fresnel products and the transmittance was NaN with an
+/// OK status. Now the ratio is checked (at most 1e100): OUT_OF_RANGE.
+#[test]
+fn absurd_index_ratios_are_out_of_range_not_nan() {
+    let stack = FlatrayStack {
+        origin: Vec3::new(1.169_921_874_999_999_8, 2.200_000_000_000_245_3, 2.2),
+        normal: Vec3::new(
+            1e-300,
+            7.117_503_049_684_752e-38,
+            4.483_094_640_249_105e-120,
+        ),
+        n_observer: 1e-300,
+        layer_count: 2,
+        thickness: [
+            2.011_764_705_882_353,
+            2.011_764_705_882_353,
+            1.0,
+            2.0,
+            2.0,
+            2.0,
+            2.2,
+            2.0,
+        ],
+        n_layer: [
+            2.011_754_602_895_063_5,
+            2.011_764_705_882_321,
+            f64::NAN,
+            2.0,
+            2.0,
+            2.2,
+            2.2,
+            2.0,
+        ],
+        n_object: 2.011_764_705_882_354,
+    };
+    let ray = Ray::new(
+        Vec3::new(
+            2.011_764_705_882_353,
+            2.011_764_705_882_353,
+            2.011_764_705_882_353,
+        ),
+        Vec3::new(2.011_764_705_995_585, 2.011_764_705_882_353, 2.2),
+    );
+    let mut out = Ray::NAN;
+    let mut t = 0.0;
+    let status = unsafe { flatray_trace(&stack, ray, &mut out, &mut t) };
+    assert_eq!(status, FlatrayStatus::FLATRAY_ERR_OUT_OF_RANGE);
+    assert!(t.is_nan() && out.origin.x.is_nan());
+    assert!(matches!(
+        flatray::trace(&stack.to_stack().unwrap(), ray),
+        Err(Error::OutOfRange(_))
+    ));
+}
