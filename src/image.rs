@@ -20,7 +20,7 @@
 //! when viewing along the normal.
 
 use crate::error::{finite, positive, representable, Error, Result};
-use crate::interface::continue_into;
+use crate::interface::{continue_into, Incidence};
 use crate::math;
 use crate::path::{solve, SolveOptions, Solved};
 use crate::stack::Stack;
@@ -174,15 +174,16 @@ pub fn true_position(stack: &Stack, observer: Vec3, apparent: Vec3, image: Image
     // `interface::continue_into`): η = n/n0, q = n cos θ / n0, tan θ = sin θ0 / q.
     let n0 = stack.n_observer();
     let tangential = d - normal * cos0; // length sin θ0
+    let inc = Incidence::from_parts(cos0, tangential);
     let entry = observer + d * (-h_obs / cos0);
     let mut exit = entry;
     let mut layer_depth = 0.0;
     for layer in stack.layers() {
-        let (eta, q) = continue_into(layer.index, n0, cos0)?;
+        let (eta, q) = continue_into(layer.index, n0, inc)?;
         layer_depth += layer.thickness * image.factor(eta, cos0, q);
         exit += tangential * (layer.thickness / q) + normal * layer.thickness;
     }
-    let (eta_x, q_x) = continue_into(stack.n_object(), n0, cos0)?;
+    let (eta_x, q_x) = continue_into(stack.n_object(), n0, inc)?;
     let remaining = z_a - layer_depth;
     if remaining < 0.0 {
         return Err(Error::WrongSide(
@@ -220,7 +221,12 @@ fn single_interface_factor(
     let n0 = positive(n_observer, "n_observer must be finite and > 0")?;
     let n1 = positive(n_object, "n_object must be finite and > 0")?;
     let cos0 = math::cos(view_angle);
-    match continue_into(n1, n0, cos0) {
+    let sin0 = math::sin(view_angle);
+    let inc = Incidence {
+        cos: cos0,
+        sin2: sin0 * sin0,
+    };
+    match continue_into(n1, n0, inc) {
         Ok((eta, q)) => Ok(image.factor(eta, cos0, q)),
         Err(Error::TotalInternalReflection(_)) => Err(Error::TotalInternalReflection(
             "no ray from the object's medium reaches the observer at this view angle",

@@ -29,17 +29,52 @@ pub(crate) fn index_ratio(n_t: f64, n_i: f64) -> Result<f64> {
     }
 }
 
+/// The angle of incidence as its cosine and squared sine, each computed
+/// directly (from a direction: `cos = d̂·n̂`, `sin² = |d̂ − cos n̂|²`), so neither is
+/// taken as `1 − the other` where that would cancel.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Incidence {
+    /// `cos θ`, in `[0, 1]`.
+    pub cos: f64,
+    /// `sin² θ`, in `[0, 1]`.
+    pub sin2: f64,
+}
+
+impl Incidence {
+    /// From the cosine alone: `sin² = (1 − cos)(1 + cos)` (exact for cos near 1).
+    #[inline]
+    pub fn from_cos(cos: f64) -> Incidence {
+        Incidence {
+            cos,
+            sin2: (1.0 - cos) * (1.0 + cos),
+        }
+    }
+
+    /// From the cosine and the tangential part `d̂ − cos n̂` of a unit direction.
+    #[inline]
+    pub fn from_parts(cos: f64, tangential: Vec3) -> Incidence {
+        Incidence {
+            cos,
+            sin2: tangential.dot(tangential),
+        }
+    }
+}
+
 /// `q = n_t cos θ_t / n_i` for light crossing from index `n_i` into
-/// `n_t = η n_i` at incidence cosine `cos_i` (Snell's law):
-///
-/// `q² = η² − sin² θ_i = (η − 1)(η + 1) + cos² θ_i`,
-///
+/// `n_t = η n_i` at incidence `inc` (Snell's law): `q² = η² − sin² θ_i`,
 /// written relative to `n_i` so that no index is squared (tiny or huge indices
-/// cannot underflow or overflow) and without cancellation when `η >= 1`.
+/// cannot underflow or overflow). For `η >= 1` it is evaluated as
+/// `(η − 1)(η + 1) + cos² θ_i`, a sum of non-negative terms, so grazing rays
+/// keep their accuracy; for `η < 1` as `η² − sin² θ_i` with the sine computed
+/// directly, so a ray near the normal cannot be mistaken for one that crosses.
 /// Returns `None` beyond the critical angle (`q² < 0`).
 #[inline]
-pub(crate) fn projected_ratio(eta: f64, cos_i: f64) -> Option<f64> {
-    let sq = (eta - 1.0) * (eta + 1.0) + cos_i * cos_i;
+pub(crate) fn projected_ratio(eta: f64, inc: Incidence) -> Option<f64> {
+    let sq = if eta >= 1.0 {
+        (eta - 1.0) * (eta + 1.0) + inc.cos * inc.cos
+    } else {
+        eta * eta - inc.sin2
+    };
     if sq >= 0.0 {
         Some(math::sqrt(sq))
     } else {
@@ -47,7 +82,7 @@ pub(crate) fn projected_ratio(eta: f64, cos_i: f64) -> Option<f64> {
     }
 }
 
-/// How a ray with incidence cosine `cos0` in a medium of index `n_0` continues
+/// How a ray with incidence `inc` in a medium of index `n_0` continues
 /// into a parallel medium of index `n`: `(η, q)` with `η = n / n_0` and
 /// `q = n cos θ / n_0` ([`projected_ratio`]), the same in every medium of a flat
 /// stack because `n sin θ` is (Snell's law).
@@ -57,9 +92,9 @@ pub(crate) fn projected_ratio(eta: f64, cos_i: f64) -> Option<f64> {
 /// would only graze it, `q = 0`); [`Error::OutOfRange`] for an index ratio
 /// beyond [`MAX_INDEX_RATIO`].
 #[inline]
-pub(crate) fn continue_into(n: f64, n_0: f64, cos0: f64) -> Result<(f64, f64)> {
+pub(crate) fn continue_into(n: f64, n_0: f64, inc: Incidence) -> Result<(f64, f64)> {
     let eta = index_ratio(n, n_0)?;
-    match projected_ratio(eta, cos0) {
+    match projected_ratio(eta, inc) {
         Some(q) if q > 0.0 => Ok((eta, q)),
         _ => Err(Error::TotalInternalReflection(
             "the ray cannot cross an interface of the stack",
@@ -111,9 +146,9 @@ pub fn refract(direction: Vec3, normal: Vec3, n_from: f64, n_to: f64) -> Result<
     }
     let tangential = d - n * cos_i;
     let eta = index_ratio(n_to, n_from)?;
-    let q = projected_ratio(eta, cos_i).ok_or(Error::TotalInternalReflection(
-        "the incidence angle is beyond the critical angle",
-    ))?;
+    let q = projected_ratio(eta, Incidence::from_parts(cos_i, tangential)).ok_or(
+        Error::TotalInternalReflection("the incidence angle is beyond the critical angle"),
+    )?;
     // t̂ = (d̂ − cos θ_i n̂)/η + (n_to cos θ_t / n_to) n̂, and n_to cos θ_t / n_to = q/η.
     let t = (tangential + n * q) * (1.0 / eta);
     // |t| = 1 up to rounding; renormalise so the output is unit to the last bit.
@@ -198,7 +233,8 @@ fn reflect_transmit(u: f64, v: f64) -> (f64, f64) {
     let (u, v) = (u / m, v / m);
     let sum = u + v;
     let diff = (u - v) / sum;
-    (diff * diff, 4.0 * u * v / (sum * sum))
+    // 4uv/(u + v)² ≤ 1 exactly; rounding can exceed 1 by an ulp when u ≈ v.
+    (diff * diff, (4.0 * u * v / (sum * sum)).min(1.0))
 }
 
 /// Fresnel power coefficients for light meeting a flat interface from a medium
@@ -240,12 +276,14 @@ pub fn fresnel(cos_incidence: f64, n_from: f64, n_to: f64) -> Result<Fresnel> {
         });
     }
     let eta = index_ratio(n_to, n_from)?;
-    Ok(match projected_ratio(eta, cos_incidence) {
-        Some(q) if cos_incidence > 0.0 || q > 0.0 => {
-            Fresnel::from_projections(eta, cos_incidence, q)
-        }
-        _ => Fresnel::TOTAL_REFLECTION,
-    })
+    Ok(
+        match projected_ratio(eta, Incidence::from_cos(cos_incidence)) {
+            Some(q) if cos_incidence > 0.0 || q > 0.0 => {
+                Fresnel::from_projections(eta, cos_incidence, q)
+            }
+            _ => Fresnel::TOTAL_REFLECTION,
+        },
+    )
 }
 
 /// The critical angle, radians, for light going from `n_from` into a less dense

@@ -8,7 +8,7 @@
 //! medium `k` (see [`crate::interface`]).
 
 use crate::error::{representable, Error, Result};
-use crate::interface::{continue_into, index_ratio, Fresnel};
+use crate::interface::{continue_into, index_ratio, Fresnel, Incidence};
 use crate::math;
 use crate::stack::{Stack, MAX_LAYERS};
 use crate::vector::{Ray, Vec3};
@@ -76,13 +76,14 @@ pub fn trace(stack: &Stack, observer_ray: Ray) -> Result<Traced> {
     // `continue_into`): η = n/n0, q = n cos θ / n0, tan θ = sin θ0 / q.
     let n0 = stack.n_observer();
     let tangential = d - normal * cos0; // length sin θ0
+    let inc = Incidence::from_parts(cos0, tangential);
     let mut position = origin + d * (-h0 / cos0);
     let mut prev_n = n0;
     let mut prev_q = cos0;
     let mut prod_ts = 1.0;
     let mut prod_tp = 1.0;
     for layer in stack.layers() {
-        let (_, q) = continue_into(layer.index, n0, cos0)?;
+        let (_, q) = continue_into(layer.index, n0, inc)?;
         let f = Fresnel::from_projections(index_ratio(layer.index, prev_n)?, prev_q, q);
         prod_ts *= f.ts;
         prod_tp *= f.tp;
@@ -91,7 +92,7 @@ pub fn trace(stack: &Stack, observer_ray: Ray) -> Result<Traced> {
         prev_q = q;
     }
     let n_x = stack.n_object();
-    let (eta_x, q_x) = continue_into(n_x, n0, cos0)?;
+    let (eta_x, q_x) = continue_into(n_x, n0, inc)?;
     let f = Fresnel::from_projections(index_ratio(n_x, prev_n)?, prev_q, q_x);
     prod_ts *= f.ts;
     prod_tp *= f.tp;
