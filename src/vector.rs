@@ -60,7 +60,8 @@ impl Vec3 {
             return m;
         }
         if !(1e-150..=1e150).contains(&m) {
-            let s = self * (1.0 / m);
+            // Divide (not multiply by 1/m, which overflows for subnormal m).
+            let s = Vec3::new(self.x / m, self.y / m, self.z / m);
             return m * math::sqrt(s.dot(s));
         }
         math::sqrt(self.dot(self))
@@ -201,5 +202,8 @@ mod tests {
         assert!((big / 5e200 - 1.0).abs() < 1e-15);
         let small = Vec3::new(3e-200, 4e-200, 0.0).length();
         assert!((small / 5e-200 - 1.0).abs() < 1e-15);
+        // Subnormal components (a fuzz finding: 1/m overflowed and gave NaN).
+        let tiny = Vec3::new(3.435_361_644_027e-311, 0.0, 0.0).length();
+        assert_eq!(tiny, 3.435_361_644_027e-311);
     }
 }

@@ -72,3 +72,58 @@ fn absurd_index_ratios_are_out_of_range_not_nan() {
         Err(Error::OutOfRange(_))
     ));
 }
+
+/// A ray 4e-9 rad from the normal going from index 0.05 into 4.5e-14 (η ≈ 1e-12):
+/// sin θ_t would be about 5000, so this is total internal reflection. The
+/// cosine rounded to 1 and `η² − 1 + cos²` came out non-negative; the sine is
+/// now computed directly for η < 1.
+#[test]
+fn near_normal_ray_into_a_far_thinner_medium_is_reflected() {
+    let d = Vec3::new(
+        0.049_999_999_999_999_996,
+        0.049_999_999_999_999_996,
+        0.049_999_999_627_470_97,
+    );
+    let n = Vec3::new(
+        0.049_999_999_999_999_996,
+        0.049_999_999_999_999_996,
+        0.049_999_999_999_999_996,
+    );
+    assert!(matches!(
+        refract(d, n, 0.05, 4.546_918_397_352_329e-14),
+        Err(Error::TotalInternalReflection(_))
+    ));
+}
+
+/// Nearly equal indices through seven layers: 4uv/(u + v)² rounded to
+/// 1 + 2.2e-16 and the transmittance exceeded 1. Now clamped.
+#[test]
+fn transmittance_never_exceeds_one() {
+    let n = 0.701_960_784_313_725_4;
+    let mut layers = [flatray::Layer::new(0.7, n); 7];
+    layers[1].index = 0.701_960_784_313_722_3;
+    let stack = flatray::Stack::new(
+        Vec3::new(20.78, 20.78, 70.19),
+        Vec3::new(1.0, 1.0, 1.0),
+        n,
+        &layers,
+        n,
+    )
+    .unwrap();
+    let ray = Ray::new(
+        Vec3::new(0.70, 0.21, 20.78),
+        Vec3::new(20.78, 5.56e-309, 99.999),
+    );
+    let t = flatray::trace(&stack, ray).unwrap().transmittance;
+    assert!(t <= 1.0, "transmittance {t}");
+}
+
+/// The length of a vector with subnormal components was NaN (1/m overflowed).
+#[test]
+fn subnormal_vectors_have_a_length() {
+    assert_eq!(
+        Vec3::new(3.435_361_644_027e-311, 0.0, 0.0).length(),
+        3.435_361_644_027e-311
+    );
+    assert!(Vec3::new(5e-324, 5e-324, 0.0).length() > 0.0);
+}

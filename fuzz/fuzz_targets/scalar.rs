@@ -25,7 +25,17 @@ fuzz_target!(|bytes: &[u8]| {
         let dd = d.try_normalize().unwrap();
         let s1 = (dd - nn * dd.dot(nn)).length();
         let s2 = (out - nn * out.dot(nn)).length();
-        assert!((n1 * s1 - n2 * s2).abs() <= 1e-12 * n1.max(n2), "Snell violated: d {d:?} n {n:?} n1 {n1:e} n2 {n2:e} out {out:?}");
+        // Snell in ratio form, s1 = (n2/n1) s2, where the sines are normal
+        // numbers (subnormal sines carry too few digits to check).
+        let eta = n2 / n1;
+        if s1.is_normal() && s2.is_normal() && eta.is_normal() {
+            assert!(
+                // The sines come from differences of unit vectors: each carries an
+                // absolute error of a few ε, which η multiplies on the right.
+                (s1 - eta * s2).abs() <= 1e-12 * s1.max(eta * s2) + 8.0 * f64::EPSILON * (1.0 + eta),
+                "Snell violated: d {d:?} n {n:?} n1 {n1:e} n2 {n2:e} out {out:?}"
+            );
+        }
     } else {
         assert!(is_nan3(out));
     }

@@ -20,10 +20,12 @@ fuzz_target!(|bytes: &[u8]| {
     let c_stack = inp.stack();
     let valid = c_stack.to_stack().ok();
 
-    // Tolerance for "lies on an interface": rounding of the coordinates involved.
-    let on_plane_tol = |p: Vec3| {
+    // Tolerance for "lies on an interface": rounding of the coordinates
+    // involved (the result, the inputs it came from, the stack).
+    let on_plane_tol = |p: Vec3, inputs: &[Vec3]| {
         let s = valid.as_ref().unwrap();
-        1e-12 * (p.length() + s.origin().length() + s.total_thickness() + 1.0)
+        let scale: f64 = inputs.iter().map(|v| v.length()).sum();
+        1e-12 * (p.length() + scale + s.origin().length() + s.total_thickness() + 1.0)
     };
 
     let ray = Ray::new(inp.vec3(), inp.vec3());
@@ -36,7 +38,8 @@ fuzz_target!(|bytes: &[u8]| {
         assert!(out.origin.is_finite() && is_unit(out.direction), "trace gave {out:?}");
         assert!((0.0..=1.0).contains(&t), "transmittance {t}: stack {c_stack:?} ray {ray:?} out {out:?}");
         let h = stack.height(out.origin) - stack.total_thickness();
-        assert!(h.abs() <= on_plane_tol(out.origin), "traced ray is {h:e} m off the last interface");
+        let tol = on_plane_tol(out.origin, &[ray.origin]);
+        assert!(h.abs() <= tol, "traced ray is {h:e} m off the last interface (tolerance {tol:e}): stack {c_stack:?} ray {ray:?} out {out:?}");
         assert!(out.direction.dot(stack.normal()) > 0.0, "traced ray goes back");
     } else {
         assert!(is_nan3(out.origin) && is_nan3(out.direction) && t.is_nan());
@@ -53,7 +56,11 @@ fuzz_target!(|bytes: &[u8]| {
         assert!(path.geometric_length.is_finite() && path.geometric_length >= 0.0);
         assert!(path.optical_length.is_finite() && path.optical_length >= 0.0);
         assert!((0.0..=1.0).contains(&path.transmittance));
-        assert!(stack.height(path.entry).abs() <= on_plane_tol(path.entry), "entry off the first interface");
+        assert!(
+            stack.height(path.entry).abs() <= on_plane_tol(path.entry, &[observer, object]),
+            "entry {:e} m off the first interface: stack {c_stack:?} observer {observer:?} object {object:?} path {path:?}",
+            stack.height(path.entry)
+        );
     } else {
         assert!(is_nan3(path.direction) && path.optical_length.is_nan());
     }
