@@ -418,7 +418,9 @@ fn stack_builder_camera_port() {
 fn bad_input_is_rejected_with_the_right_status() {
     let invalid = |r: Result<f64>| matches!(r, Err(Error::InvalidArgument(_)));
     let out = |r: Result<f64>| matches!(r, Err(Error::OutOfRange(_)));
-    // NaN and negative wavelength.
+    // The rule (src/media/mod.rs, "Errors"; the same in C and Python): a
+    // non-finite input is InvalidArgument, any finite input outside the
+    // model's validity is OutOfRange, unphysical values included.
     for m in [
         Medium::air(20.0, 101_325.0, 0.5),
         Medium::pure_water(20.0, 101_325.0),
@@ -427,22 +429,23 @@ fn bad_input_is_rejected_with_the_right_status() {
         Medium::Index(1.5),
     ] {
         assert!(invalid(m.index(f64::NAN)), "{m:?}");
-        assert!(invalid(m.index(-532.0)), "{m:?}");
+        assert!(out(m.index(-532.0)), "{m:?}");
+        assert!(out(m.index(0.0)), "{m:?}");
         assert!(invalid(m.group_index(f64::NEG_INFINITY)), "{m:?}");
     }
     // Out-of-range temperature, salinity, pressure.
     assert!(out(Medium::pure_water(-5.0, 101_325.0).index(532.0)));
     assert!(out(Medium::pure_water(20.0, 150e6).index(532.0)));
     assert!(out(Medium::pure_water(20.0, 1_000.0).index(532.0)));
-    assert!(invalid(Medium::pure_water(20.0, -1.0).index(532.0)));
+    assert!(out(Medium::pure_water(20.0, -1.0).index(532.0)));
     assert!(out(Medium::seawater(35.0, 35.0).index(532.0)));
     assert!(out(Medium::seawater(10.0, 40.0).index(532.0)));
-    assert!(invalid(Medium::seawater(10.0, -3.0).index(532.0)));
+    assert!(out(Medium::seawater(10.0, -3.0).index(532.0)));
     assert!(invalid(Medium::seawater(f64::NAN, 35.0).index(532.0)));
     assert!(out(Medium::air(150.0, 101_325.0, 0.0).index(532.0)));
     assert!(out(Medium::air(20.0, 500e3, 0.0).index(532.0)));
     assert!(out(Medium::air(20.0, 101_325.0, 1.5).index(532.0)));
-    assert!(invalid(Medium::air(-280.0, 101_325.0, 0.0).index(532.0)));
+    assert!(out(Medium::air(-280.0, 101_325.0, 0.0).index(532.0)));
     // Out-of-range wavelengths.
     assert!(out(Medium::seawater(10.0, 35.0).index(350.0)));
     assert!(out(Medium::pure_water(10.0, 101_325.0).index(1500.0)));

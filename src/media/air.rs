@@ -126,7 +126,7 @@ pub(crate) fn standard_air(wavelength_nm: f64) -> (f64, f64) {
 /// are relative to air (see the [footing](crate::media#footing) notes).
 ///
 /// # Errors
-/// [`Error::InvalidArgument`] for a non-finite or non-positive wavelength;
+/// [`Error::InvalidArgument`] for a non-finite wavelength;
 /// [`Error::OutOfRange`] outside 230–1690 nm.
 pub fn standard_air_index(wavelength_nm: f64) -> Result<f64> {
     let l = wavelength_in(
@@ -235,15 +235,15 @@ impl Air {
             self.pressure_pa,
             10.0e3,
             140.0e3,
-            "air: pressure_pa must be finite and >= 0",
+            "air: pressure_pa must be finite",
             "air: pressure_pa outside 10 to 140 kPa (Ciddor 1996)",
         )?;
         let h = amount_in(
             self.relative_humidity,
             0.0,
             1.0,
-            "air: relative_humidity must be finite and >= 0",
-            "air: relative_humidity above 1 (saturation)",
+            "air: relative_humidity must be finite",
+            "air: relative_humidity outside 0 to 1",
         )?;
         let t_k = kelvin(t);
         let svp = math::exp(SVP_A * t_k * t_k + SVP_B * t_k + SVP_C + SVP_D / t_k);
@@ -262,10 +262,10 @@ impl Air {
     /// the dispersion terms, the densities not depending on wavelength).
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`] for a non-finite input, a wavelength ≤ 0, a
-    /// temperature below absolute zero, or a negative pressure, humidity or CO₂
-    /// content; [`Error::OutOfRange`] outside the validity stated in the module
-    /// docs.
+    /// [`Error::InvalidArgument`] for a non-finite input;
+    /// [`Error::OutOfRange`] for any finite input outside the validity stated in
+    /// the module docs (a wavelength ≤ 0, a temperature below absolute zero, a
+    /// negative pressure, humidity or CO₂ content included).
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         let l = wavelength_in(
             wavelength_nm,
@@ -277,8 +277,8 @@ impl Air {
             self.co2_ppm,
             0.0,
             2000.0,
-            "air: co2_ppm must be finite and >= 0",
-            "air: co2_ppm above 2000 ppm (Ciddor 1996)",
+            "air: co2_ppm must be finite",
+            "air: co2_ppm outside 0 to 2000 ppm (Ciddor 1996)",
         )?;
         let x_w = self.water_vapour_mole_fraction()?;
         let t_k = kelvin(self.temperature_c);
@@ -392,12 +392,9 @@ mod tests {
         ));
         assert!(matches!(
             a.refractive_index(-500.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
-        assert!(matches!(
-            a.refractive_index(0.0),
-            Err(Error::InvalidArgument(_))
-        ));
+        assert!(matches!(a.refractive_index(0.0), Err(Error::OutOfRange(_))));
         assert!(matches!(
             a.refractive_index(250.0),
             Err(Error::OutOfRange(_))
@@ -413,7 +410,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(Air::new(-300.0, 1e5, 0.0)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(Air::new(-50.0, 1e5, 0.0)),
@@ -425,7 +422,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(Air::new(20.0, -1.0, 0.0)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(Air::new(20.0, 5e3, 0.0)),
@@ -437,7 +434,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(Air::new(20.0, 1e5, -0.1)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(Air::new(20.0, 1e5, 1.1)),
@@ -449,7 +446,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(Air::STANDARD.with_co2_ppm(-1.0)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(Air::STANDARD.with_co2_ppm(5000.0)),

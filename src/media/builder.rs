@@ -75,7 +75,7 @@ impl Medium {
     /// # Errors
     /// As the underlying model; for [`Medium::Index`],
     /// [`Error::InvalidArgument`] unless the index is finite and > 0 and the
-    /// wavelength finite and > 0.
+    /// wavelength finite, [`Error::OutOfRange`] for a wavelength ≤ 0.
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         match self {
             Medium::Air(m) => m.sample(wavelength_nm),
@@ -85,10 +85,11 @@ impl Medium {
             Medium::Sellmeier(m) => m.sample(wavelength_nm),
             Medium::Cauchy(m) => m.sample(wavelength_nm),
             Medium::Index(n) => {
-                if !(wavelength_nm.is_finite() && wavelength_nm > 0.0) {
-                    return Err(Error::InvalidArgument(
-                        "wavelength_nm must be finite and > 0",
-                    ));
+                if !wavelength_nm.is_finite() {
+                    return Err(Error::InvalidArgument("wavelength_nm must be finite"));
+                }
+                if wavelength_nm <= 0.0 {
+                    return Err(Error::OutOfRange("wavelength_nm must be > 0"));
                 }
                 if !(n.is_finite() && *n > 0.0) {
                     return Err(Error::InvalidArgument(
@@ -307,7 +308,7 @@ mod tests {
         // Quan-Fry stops at 700 nm.
         assert!(matches!(b.build(800.0), Err(Error::OutOfRange(_))));
         assert!(matches!(b.build(f64::NAN), Err(Error::InvalidArgument(_))));
-        assert!(matches!(b.build(-532.0), Err(Error::InvalidArgument(_))));
+        assert!(matches!(b.build(-532.0), Err(Error::OutOfRange(_))));
         let bad_layer = b.layer(-0.01, Medium::Material(Material::FusedSilica));
         assert!(matches!(
             bad_layer.build(532.0),

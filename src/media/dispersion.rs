@@ -142,9 +142,9 @@ impl Sellmeier {
     ///
     /// # Errors
     /// [`Error::InvalidArgument`] for non-finite coefficients, a malformed range
-    /// or a wavelength that is not finite and > 0; [`Error::OutOfRange`] outside
-    /// the formula's range, where the formula gives no real positive index, or
-    /// below 200 nm on the [`Footing::StandardAir`] footing.
+    /// or a non-finite wavelength; [`Error::OutOfRange`] for a wavelength ≤ 0 or
+    /// outside the formula's range, where the formula gives no real positive
+    /// index, or below 200 nm on the [`Footing::StandardAir`] footing.
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         if !self
             .b
@@ -236,9 +236,9 @@ impl Cauchy {
     ///
     /// # Errors
     /// [`Error::InvalidArgument`] for non-finite coefficients, a malformed range
-    /// or a wavelength that is not finite and > 0; [`Error::OutOfRange`] outside
-    /// the formula's range, where it gives no finite positive index, or below
-    /// 200 nm on the [`Footing::StandardAir`] footing.
+    /// or a non-finite wavelength; [`Error::OutOfRange`] for a wavelength ≤ 0 or
+    /// outside the formula's range, where it gives no finite positive index, or
+    /// below 200 nm on the [`Footing::StandardAir`] footing.
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         if !(self.a.is_finite() && self.b_um2.is_finite() && self.c_um4.is_finite()) {
             return Err(Error::InvalidArgument("Cauchy coefficients must be finite"));
@@ -350,7 +350,7 @@ mod tests {
         ));
         assert!(matches!(
             s.refractive_index(-600.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             s.refractive_index(200.0),

@@ -108,8 +108,8 @@ pub const SATURATION_MAX_TEMPERATURE_C: f64 = 647.096 - 273.15;
 /// Valid from 273.15 K to the critical temperature 647.096 K (0 to 373.946 °C).
 ///
 /// # Errors
-/// [`Error::InvalidArgument`] for a non-finite temperature or one below absolute
-/// zero; [`Error::OutOfRange`] outside 0 to 373.946 °C.
+/// [`Error::InvalidArgument`] for a non-finite temperature;
+/// [`Error::OutOfRange`] outside 0 to 373.946 °C.
 pub fn saturation_pressure_pa(temperature_c: f64) -> Result<f64> {
     let t_c = temperature_in(
         temperature_c,
@@ -164,8 +164,8 @@ fn region1_state(temperature_c: f64, pressure_pa: f64) -> Result<(f64, f64)> {
         pressure_pa,
         0.0,
         MAX_PRESSURE_PA,
-        "water: pressure_pa must be finite and >= 0 (absolute pressure)",
-        "water: pressure_pa above 100 MPa (IAPWS-IF97 region 1)",
+        "water: pressure_pa must be finite (absolute pressure)",
+        "water: pressure_pa outside 0 to 100 MPa (IAPWS-IF97 region 1)",
     )?;
     let t_k = kelvin(t_c);
     if p < saturation_pressure_unchecked(t_k) {
@@ -181,9 +181,8 @@ fn region1_state(temperature_c: f64, pressure_pa: f64) -> Result<(f64, f64)> {
 /// IAPWS-IF97 region 1 (release eq. 7 and Table 3); see the module docs.
 ///
 /// # Errors
-/// [`Error::InvalidArgument`] for a non-finite input, a temperature below
-/// absolute zero or a negative pressure; [`Error::OutOfRange`] outside
-/// 0–350 °C, above 100 MPa or below the saturation pressure.
+/// [`Error::InvalidArgument`] for a non-finite input; [`Error::OutOfRange`]
+/// outside 0–350 °C or 0–100 MPa, or below the saturation pressure.
 pub fn region1_properties(temperature_c: f64, pressure_pa: f64) -> Result<Region1Properties> {
     let (t_k, p) = region1_state(temperature_c, pressure_pa)?;
     let pi = p / P_STAR_PA;
@@ -370,11 +369,11 @@ mod tests {
         assert!(density_kg_per_m3(0.0, 101_325.0).is_ok());
         assert!(matches!(
             density_kg_per_m3(20.0, -1.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             density_kg_per_m3(-300.0, 1e5),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             density_kg_per_m3(f64::NAN, 1e5),

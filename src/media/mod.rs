@@ -35,12 +35,16 @@
 //!
 //! # Errors
 //!
-//! * [`Error::InvalidArgument`]: a NaN or infinite input, or a value no physical
-//!   state can have: a wavelength ≤ 0, a temperature below absolute zero, a
-//!   negative pressure, salinity, relative humidity, CO₂ fraction or density.
-//! * [`Error::OutOfRange`]: a finite, physical input outside the model's published
-//!   range of validity (each model states its range), or a state the model does
-//!   not describe (water below its boiling pressure).
+//! One rule for every model's conditions and wavelength, the same in Rust, C and
+//! Python:
+//!
+//! * [`Error::InvalidArgument`]: a NaN or infinite input (and, for user
+//!   formulas, non-finite coefficients or a malformed wavelength range).
+//! * [`Error::OutOfRange`]: any finite input outside the model's range of
+//!   validity (each model states its range) — a wavelength ≤ 0, a temperature
+//!   below absolute zero and a negative pressure, salinity, humidity, CO₂
+//!   fraction or density included — or a state the model does not describe
+//!   (water below its boiling pressure, a user formula with no real index).
 
 use crate::error::{Error, Result};
 
@@ -109,13 +113,12 @@ pub(crate) fn kelvin(t_c: f64) -> f64 {
     t_c + KELVIN_OFFSET
 }
 
-/// A temperature within `[lo, hi]` °C: non-finite or below absolute zero is
-/// `InvalidArgument`, otherwise outside the range is `OutOfRange(range_msg)`.
+/// A temperature within `[lo, hi]` °C: non-finite is `InvalidArgument`; any
+/// finite value outside the range (below absolute zero included) is
+/// `OutOfRange(range_msg)`.
 pub(crate) fn temperature_in(t_c: f64, lo: f64, hi: f64, range_msg: &'static str) -> Result<f64> {
-    if !t_c.is_finite() || t_c < -KELVIN_OFFSET {
-        return Err(Error::InvalidArgument(
-            "temperature_c must be finite and not below absolute zero (-273.15 °C)",
-        ));
+    if !t_c.is_finite() {
+        return Err(Error::InvalidArgument("temperature_c must be finite"));
     }
     if t_c < lo || t_c > hi {
         return Err(Error::OutOfRange(range_msg));
@@ -123,8 +126,8 @@ pub(crate) fn temperature_in(t_c: f64, lo: f64, hi: f64, range_msg: &'static str
     Ok(t_c)
 }
 
-/// A non-negative quantity within `[lo, hi]`: non-finite or negative is
-/// `InvalidArgument(invalid_msg)`, otherwise outside the range is
+/// A quantity within `[lo, hi]`: non-finite is `InvalidArgument(invalid_msg)`;
+/// any finite value outside the range (a negative one included) is
 /// `OutOfRange(range_msg)`.
 pub(crate) fn amount_in(
     x: f64,
@@ -133,7 +136,7 @@ pub(crate) fn amount_in(
     invalid_msg: &'static str,
     range_msg: &'static str,
 ) -> Result<f64> {
-    if !x.is_finite() || x < 0.0 {
+    if !x.is_finite() {
         return Err(Error::InvalidArgument(invalid_msg));
     }
     if x < lo || x > hi {
@@ -142,20 +145,19 @@ pub(crate) fn amount_in(
     Ok(x)
 }
 
-/// A wavelength within `[lo, hi]` nm: non-finite or `<= 0` is
-/// `InvalidArgument`, otherwise outside the range is `OutOfRange(range_msg)`.
+/// A wavelength within `[lo, hi]` nm: non-finite is `InvalidArgument`; any
+/// finite value outside the range (zero and negative values included) is
+/// `OutOfRange(range_msg)`.
 pub(crate) fn wavelength_in(
     wavelength_nm: f64,
     lo: f64,
     hi: f64,
     range_msg: &'static str,
 ) -> Result<f64> {
-    if !wavelength_nm.is_finite() || wavelength_nm <= 0.0 {
-        return Err(Error::InvalidArgument(
-            "wavelength_nm must be finite and > 0",
-        ));
+    if !wavelength_nm.is_finite() {
+        return Err(Error::InvalidArgument("wavelength_nm must be finite"));
     }
-    if wavelength_nm < lo || wavelength_nm > hi {
+    if wavelength_nm <= 0.0 || wavelength_nm < lo || wavelength_nm > hi {
         return Err(Error::OutOfRange(range_msg));
     }
     Ok(wavelength_nm)

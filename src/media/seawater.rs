@@ -79,8 +79,8 @@ fn check_t_s(temperature_c: f64, salinity_psu: f64) -> Result<(f64, f64)> {
         salinity_psu,
         0.0,
         MAX_SALINITY_PSU,
-        "seawater: salinity_psu must be finite and >= 0",
-        "seawater: salinity_psu above 35 (Quan and Fry 1995)",
+        "seawater: salinity_psu must be finite",
+        "seawater: salinity_psu outside 0 to 35 (Quan and Fry 1995)",
     )?;
     Ok((t, s))
 }
@@ -90,8 +90,7 @@ fn check_t_s(temperature_c: f64, salinity_psu: f64) -> Result<(f64, f64)> {
 /// `salinity_psu` (‰), atmospheric pressure. See the module docs.
 ///
 /// # Errors
-/// [`Error::InvalidArgument`](crate::Error::InvalidArgument) for a non-finite input, a wavelength ≤ 0, a
-/// temperature below absolute zero or a negative salinity;
+/// [`Error::InvalidArgument`](crate::Error::InvalidArgument) for a non-finite input;
 /// [`Error::OutOfRange`](crate::Error::OutOfRange) outside 0–30 °C, 0–35 PSU or 400–700 nm.
 pub fn quan_fry_relative_to_air(
     temperature_c: f64,
@@ -142,10 +141,9 @@ impl Seawater {
     /// Index and slope at a vacuum wavelength.
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`](crate::Error::InvalidArgument) for a non-finite input, a wavelength ≤ 0, a
-    /// temperature below absolute zero, or a negative salinity or pressure;
-    /// [`Error::OutOfRange`](crate::Error::OutOfRange) outside 0–30 °C, 0–35 PSU, 400–700 nm, above
-    /// 100 MPa or below the saturation pressure of water.
+    /// [`Error::InvalidArgument`](crate::Error::InvalidArgument) for a non-finite input;
+    /// [`Error::OutOfRange`](crate::Error::OutOfRange) outside 0–30 °C, 0–35 PSU, 400–700 nm or
+    /// 0–100 MPa, or below the saturation pressure of water.
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         let (t, s) = check_t_s(self.temperature_c, self.salinity_psu)?;
         let l = wavelength_in(
@@ -158,8 +156,8 @@ impl Seawater {
             self.pressure_pa,
             0.0,
             if97::MAX_PRESSURE_PA,
-            "seawater: pressure_pa must be finite and >= 0 (absolute pressure)",
-            "seawater: pressure_pa above 100 MPa (IAPWS-IF97 region 1)",
+            "seawater: pressure_pa must be finite (absolute pressure)",
+            "seawater: pressure_pa outside 0 to 100 MPa (IAPWS-IF97 region 1)",
         )?;
         // The equation's range is checked on the vacuum wavelength; the air
         // wavelength is 0.03 % shorter, well inside the fitted data's spread.
@@ -280,7 +278,7 @@ mod tests {
         ));
         assert!(matches!(
             ok.refractive_index(-1.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             ok.refractive_index(390.0),
@@ -305,7 +303,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(Seawater::new(10.0, -1.0)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(Seawater::new(10.0, f64::NAN)),
@@ -313,7 +311,7 @@ mod tests {
         ));
         assert!(matches!(
             bad(ok.with_pressure(-5.0)),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             bad(ok.with_pressure(2e8)),

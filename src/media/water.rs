@@ -95,8 +95,7 @@ fn r9_97(t_k: f64, rho: f64, wavelength_nm: f64) -> IndexSample {
 /// vacuum wavelength in nm; see the module docs for the formula.
 ///
 /// # Errors
-/// [`Error::InvalidArgument`] for a non-finite input, a temperature below
-/// absolute zero, a negative density or a wavelength ≤ 0;
+/// [`Error::InvalidArgument`] for a non-finite input;
 /// [`Error::OutOfRange`] outside −12…500 °C, 0…1060 kg m⁻³ or 200…1100 nm.
 pub fn sample_at_density(
     temperature_c: f64,
@@ -113,8 +112,8 @@ pub fn sample_at_density(
         density_kg_per_m3,
         0.0,
         MAX_DENSITY_KG_PER_M3,
-        "water: density_kg_per_m3 must be finite and >= 0",
-        "water: density_kg_per_m3 above 1060 kg/m3 (IAPWS R9-97)",
+        "water: density_kg_per_m3 must be finite",
+        "water: density_kg_per_m3 outside 0 to 1060 kg/m3 (IAPWS R9-97)",
     )?;
     let l = wavelength_in(
         wavelength_nm,
@@ -177,10 +176,9 @@ impl PureWater {
     /// Index and slope at a vacuum wavelength.
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`] for a non-finite input, a wavelength ≤ 0, a
-    /// temperature below absolute zero or a negative pressure;
-    /// [`Error::OutOfRange`] outside 0–350 °C, above 100 MPa, below the
-    /// saturation pressure (boiling water), or outside 200–1100 nm.
+    /// [`Error::InvalidArgument`] for a non-finite input;
+    /// [`Error::OutOfRange`] outside 0–350 °C, 0–100 MPa or 200–1100 nm, or
+    /// below the saturation pressure (boiling water).
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
         let l = wavelength_in(
             wavelength_nm,
@@ -269,7 +267,7 @@ mod tests {
         ));
         assert!(matches!(
             w.refractive_index(-532.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             w.refractive_index(150.0),
@@ -293,7 +291,7 @@ mod tests {
         ));
         assert!(matches!(
             PureWater::new(20.0, -1.0).refractive_index(532.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             index_at_density(20.0, 1100.0, 532.0),
@@ -301,7 +299,7 @@ mod tests {
         ));
         assert!(matches!(
             index_at_density(20.0, -1.0, 532.0),
-            Err(Error::InvalidArgument(_))
+            Err(Error::OutOfRange(_))
         ));
         assert!(matches!(
             index_at_density(-20.0, 990.0, 532.0),
