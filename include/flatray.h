@@ -20,6 +20,12 @@
 #define FLATRAY_VERSION_STRING "0.1.0"
 
 /*
+ One standard atmosphere, Pa: the absolute pressure at sea level, and that of
+ `flatray_index_seawater`.
+ */
+#define FLATRAY_STANDARD_PRESSURE_PA 101325.0
+
+/*
  Most layers a `FlatrayStack` can hold.
  */
 #define FLATRAY_MAX_LAYERS 8
@@ -88,6 +94,49 @@ typedef enum FlatrayImage {
    */
   FLATRAY_IMAGE_TANGENTIAL = 1,
 } FlatrayImage;
+
+/*
+ A window or wall material with a built-in dispersion formula (passed to
+ functions as `int32_t`). The values are fixed and never renumbered.
+ */
+typedef enum FlatrayMaterial {
+  /*
+   Fused silica, Malitson (1965); 210–3710 nm.
+   */
+  FLATRAY_MATERIAL_FUSED_SILICA = 0,
+  /*
+   Sapphire, ordinary ray, Malitson and Dodge (1972); 200–5000 nm.
+   */
+  FLATRAY_MATERIAL_SAPPHIRE_ORDINARY = 1,
+  /*
+   PMMA (acrylic), fitted to Sultanova et al. (2009); 400–1060 nm.
+   */
+  FLATRAY_MATERIAL_PMMA = 2,
+  /*
+   Polycarbonate, fitted to Sultanova et al. (2009); 400–1060 nm.
+   */
+  FLATRAY_MATERIAL_POLYCARBONATE = 3,
+  /*
+   Soda-lime-silica window glass, Rubin (1985); 320–4600 nm.
+   */
+  FLATRAY_MATERIAL_SODA_LIME_GLASS = 4,
+} FlatrayMaterial;
+
+/*
+ What a user dispersion formula's index and wavelength are relative to
+ (passed to functions as `int32_t`).
+ */
+typedef enum FlatrayFooting {
+  /*
+   Absolute index at vacuum wavelengths.
+   */
+  FLATRAY_FOOTING_VACUUM = 0,
+  /*
+   Index relative to standard air at wavelengths in standard air, as in
+   glass catalogues (the footing of `flatray_index_sellmeier`).
+   */
+  FLATRAY_FOOTING_STANDARD_AIR = 1,
+} FlatrayFooting;
 
 /*
  A point (metres) or a direction in 3D.
@@ -457,6 +506,342 @@ FlatrayStatus flatray_true_depth(double apparent_depth,
                                       double n_object,
                                       int32_t image,
                                       double *out_depth);
+
+/*
+ Pure water: IAPWS R9-97 with the IAPWS-IF97 region-1 density.
+
+ `temperature_c` 0–350 °C, absolute `pressure_pa` from the saturation
+ (boiling) pressure to 100 MPa (101 325 Pa at the surface; add about 9.8 kPa
+ per metre of fresh water), `wavelength_nm` 200–1100 nm (vacuum). Writes the
+ absolute phase index.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an argument is NaN or infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: an argument outside the ranges above, or a
+   pressure below the boiling pressure at that temperature.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_pure_water(double temperature_c,
+                                            double pressure_pa,
+                                            double wavelength_nm,
+                                            double *out_n);
+
+/*
+ Group index `n − λ dn/dλ` of pure water (model and ranges as
+ `flatray_index_pure_water`).
+
+ # Returns
+ As `flatray_index_pure_water`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_pure_water(double temperature_c,
+                                                  double pressure_pa,
+                                                  double wavelength_nm,
+                                                  double *out_n);
+
+/*
+ Seawater at the surface (101 325 Pa): Quan and Fry (1995), converted to an
+ absolute index at the vacuum wavelength on the standard-air footing.
+
+ `temperature_c` 0–30 °C, `salinity_psu` 0–35 (practical salinity),
+ `wavelength_nm` 400–700 nm (vacuum). For water at depth see
+ `flatray_index_seawater_at_pressure`.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an argument is NaN or infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: an argument outside the ranges above.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_seawater(double temperature_c,
+                                          double salinity_psu,
+                                          double wavelength_nm,
+                                          double *out_n);
+
+/*
+ Group index of seawater at the surface (model and ranges as
+ `flatray_index_seawater`).
+
+ # Returns
+ As `flatray_index_seawater`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_seawater(double temperature_c,
+                                                double salinity_psu,
+                                                double wavelength_nm,
+                                                double *out_n);
+
+/*
+ Seawater at absolute `pressure_pa` (extension): the surface value of
+ `flatray_index_seawater` plus the pure-water pressure term
+ `n_water(T, p, λ) − n_water(T, 101 325 Pa, λ)` (IAPWS R9-97 with IF97
+ densities). `pressure_pa` from the saturation pressure of water to 100 MPa,
+ about `101 325 + 10 070 · depth_m` Pa in the open ocean; the other ranges as
+ `flatray_index_seawater`. At exactly 101 325 Pa the result equals
+ `flatray_index_seawater`.
+
+ # Returns
+ As `flatray_index_seawater`, `FLATRAY_ERR_OUT_OF_RANGE` also for a pressure
+ outside its range.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_seawater_at_pressure(double temperature_c,
+                                                      double salinity_psu,
+                                                      double pressure_pa,
+                                                      double wavelength_nm,
+                                                      double *out_n);
+
+/*
+ Group index of seawater at absolute `pressure_pa` (extension; model and
+ ranges as `flatray_index_seawater_at_pressure`).
+
+ # Returns
+ As `flatray_index_seawater_at_pressure`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_seawater_at_pressure(double temperature_c,
+                                                            double salinity_psu,
+                                                            double pressure_pa,
+                                                            double wavelength_nm,
+                                                            double *out_n);
+
+/*
+ A built-in window material (`material` is a `FlatrayMaterial` value),
+ converted from its source's air footing to the absolute index at the vacuum
+ `wavelength_nm`. Each material's wavelength range is in `FlatrayMaterial`
+ and `flatray_material_wavelength_range`.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: unknown `material`, or a NaN or infinite
+   wavelength.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: a wavelength outside the material's range.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_material(int32_t material, double wavelength_nm, double *out_n);
+
+/*
+ Group index of a built-in window material (extension; as
+ `flatray_index_material`).
+
+ # Returns
+ As `flatray_index_material`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_material(int32_t material,
+                                                double wavelength_nm,
+                                                double *out_n);
+
+/*
+ The vacuum wavelengths, nm, over which a built-in material's formula is
+ valid (extension).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_min_nm` or `out_max_nm` is NULL (the
+   other, when not NULL, is set to NaN).
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: unknown `material` (both set to NaN).
+
+ # Safety
+ `out_min_nm`, `out_max_nm`: NULL or valid for writing one `double` each.
+ */
+FlatrayStatus flatray_material_wavelength_range(int32_t material,
+                                                     double *out_min_nm,
+                                                     double *out_max_nm);
+
+/*
+ A user three-term Sellmeier formula `n² = 1 + Σ bᵢ λ²/(λ² − cᵢ)` (λ in µm,
+ `c_um2` in µm²; unused terms have `bᵢ = 0`), with coefficients **as catalogues
+ publish them: relative to air at wavelengths in air**. flatray reads them on
+ the footing of standard air (dry, 15 °C, 101 325 Pa, 450 ppm CO₂; its index
+ `n_std` from Ciddor 1996 eq. 1) and writes the absolute index at the vacuum
+ `wavelength_nm`, `n_std(λ) · n_formula(λ / n_std(λ))`. Accepts every vacuum wavelength from
+ 200 nm at which the formula gives a real positive index; keeping to the
+ coefficients' fitted range is the caller's part (`flatray_sample_sellmeier`
+ enforces a range and takes other footings).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `b`, `c_um2` or `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: a coefficient or the wavelength is NaN or
+   infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: a wavelength below 200 nm, or one at which the
+   formula gives no real positive index (at or beyond a resonance).
+
+ # Safety
+ `b`, `c_um2`: NULL or valid for reading 3 `double`s each; `out_n`: NULL or
+ valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_sellmeier(const double b[3],
+                                           const double c_um2[3],
+                                           double wavelength_nm,
+                                           double *out_n);
+
+/*
+ Group index of a user Sellmeier formula (extension; footing, wavelengths and
+ errors as `flatray_index_sellmeier`).
+
+ # Returns
+ As `flatray_index_sellmeier`.
+
+ # Safety
+ As `flatray_index_sellmeier`.
+ */
+FlatrayStatus flatray_group_index_sellmeier(const double b[3],
+                                                 const double c_um2[3],
+                                                 double wavelength_nm,
+                                                 double *out_n);
+
+/*
+ A user Cauchy formula `n = a + b/λ² + c/λ⁴` (λ in µm, `b_um2` in µm²,
+ `c_um4` in µm⁴), with coefficients relative to air at wavelengths in air, as
+ published: read on the standard-air footing, like `flatray_index_sellmeier`,
+ and written as the absolute index at the vacuum `wavelength_nm` (200 nm and
+ up, where the formula gives a positive index).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: a coefficient or the wavelength is NaN or
+   infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: a wavelength below 200 nm, or a formula value
+   that is not a positive index.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_cauchy(double a,
+                                        double b_um2,
+                                        double c_um4,
+                                        double wavelength_nm,
+                                        double *out_n);
+
+/*
+ Group index of a user Cauchy formula (extension; as `flatray_index_cauchy`).
+
+ # Returns
+ As `flatray_index_cauchy`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_cauchy(double a,
+                                              double b_um2,
+                                              double c_um4,
+                                              double wavelength_nm,
+                                              double *out_n);
+
+/*
+ A user Sellmeier formula with every option (extension): `footing` is a
+ `FlatrayFooting` value (`FLATRAY_FOOTING_STANDARD_AIR` as
+ `flatray_index_sellmeier`, or `FLATRAY_FOOTING_VACUUM` for coefficients that
+ give absolute indices at vacuum wavelengths), and flatray enforces the vacuum
+ wavelength range `min_wavelength_nm..=max_wavelength_nm` (`max` may be
+ `INFINITY` for no upper limit; on the standard-air footing wavelengths below
+ 200 nm are out of range whatever the range says). Writes the phase index to
+ `out_n` and, when `out_group_n` is not NULL, the group index to it.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `b`, `c_um2` or `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: unknown `footing`; a NaN or infinite
+   coefficient or wavelength; a NaN or infinite `min_wavelength_nm`, a NaN
+   `max_wavelength_nm`, or not `0 <= min <= max`.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: a wavelength outside the range, or one at which
+   the formula gives no real positive index.
+
+ # Safety
+ `b`, `c_um2`: NULL or valid for reading 3 `double`s each; `out_n`: NULL or
+ writable; `out_group_n`: NULL (not wanted) or writable.
+ */
+FlatrayStatus flatray_sample_sellmeier(const double b[3],
+                                            const double c_um2[3],
+                                            int32_t footing,
+                                            double min_wavelength_nm,
+                                            double max_wavelength_nm,
+                                            double wavelength_nm,
+                                            double *out_n,
+                                            double *out_group_n);
+
+/*
+ A user Cauchy formula with every option (extension): footing and wavelength
+ range as `flatray_sample_sellmeier`. Writes the phase index to `out_n` and,
+ when `out_group_n` is not NULL, the group index to it.
+
+ # Returns
+ As `flatray_sample_sellmeier` (there are no coefficient pointers).
+
+ # Safety
+ `out_n`: NULL or writable; `out_group_n`: NULL (not wanted) or writable.
+ */
+FlatrayStatus flatray_sample_cauchy(double a,
+                                         double b_um2,
+                                         double c_um4,
+                                         int32_t footing,
+                                         double min_wavelength_nm,
+                                         double max_wavelength_nm,
+                                         double wavelength_nm,
+                                         double *out_n,
+                                         double *out_group_n);
+
+/*
+ Moist air: the Ciddor (1996) equations with 450 ppm CO₂.
+
+ `temperature_c` −40 to 100 °C, absolute `pressure_pa` 10–140 kPa (101 325 Pa
+ at sea level), `relative_humidity` 0 (dry) to 1 (saturated, over liquid
+ water), `wavelength_nm` 300–1700 nm (vacuum).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an argument is NaN or infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: an argument outside the ranges above, or more
+   water vapour than the pressure can hold.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_air(double temperature_c,
+                                     double pressure_pa,
+                                     double relative_humidity,
+                                     double wavelength_nm,
+                                     double *out_n);
+
+/*
+ Group index of moist air (extension; model and ranges as
+ `flatray_index_air`).
+
+ # Returns
+ As `flatray_index_air`.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_group_index_air(double temperature_c,
+                                           double pressure_pa,
+                                           double relative_humidity,
+                                           double wavelength_nm,
+                                           double *out_n);
 
 /*
  The library version, e.g. `"0.1.0"`: a static NUL-terminated string.

@@ -25,7 +25,18 @@ fn generate() -> String {
     let mut out = Vec::new();
     bindings.write(&mut out);
     let text = String::from_utf8(out).expect("header is UTF-8");
-    plain_type_names(&text)
+    coefficient_arrays(&plain_type_names(&text))
+}
+
+/// The user-formula functions take three coefficients each; the issue writes
+/// those parameters `const double b[3]` and `const double c_um2[3]`, which C
+/// reads exactly as cbindgen's `const double *b` (an array parameter is a
+/// pointer), so the spelling changes and the ABI does not. Only these two
+/// parameter names are touched; no other function has them.
+fn coefficient_arrays(header: &str) -> String {
+    header
+        .replace("const double *b,", "const double b[3],")
+        .replace("const double *c_um2,", "const double c_um2[3],")
 }
 
 /// cbindgen's `style = "both"` writes tagged typedefs (`typedef struct
@@ -83,6 +94,21 @@ fn header_spells_the_contract_names() {
         "FlatrayStatus flatray_true_positions(const FlatrayStack *stack,",
         "FlatrayStatus flatray_refract(FlatrayVec3 direction,",
         "size_t observer_count,",
+        "FLATRAY_MATERIAL_FUSED_SILICA = 0",
+        "FLATRAY_MATERIAL_SAPPHIRE_ORDINARY = 1",
+        "FLATRAY_MATERIAL_PMMA = 2",
+        "FLATRAY_MATERIAL_POLYCARBONATE = 3",
+        "FLATRAY_MATERIAL_SODA_LIME_GLASS = 4",
+        "} FlatrayMaterial;",
+        "FlatrayStatus flatray_index_pure_water(double temperature_c,",
+        "FlatrayStatus flatray_index_seawater(double temperature_c,",
+        "FlatrayStatus flatray_index_material(int32_t material, double wavelength_nm, double *out_n);",
+        "FlatrayStatus flatray_index_sellmeier(const double b[3],",
+        "const double c_um2[3],",
+        "FlatrayStatus flatray_index_cauchy(double a,",
+        "FlatrayStatus flatray_index_air(double temperature_c,",
+        "FlatrayStatus flatray_group_index_pure_water(double temperature_c,",
+        "FlatrayStatus flatray_group_index_seawater(double temperature_c,",
         &format!(
             "#define FLATRAY_VERSION_STRING \"{}\"",
             env!("CARGO_PKG_VERSION")

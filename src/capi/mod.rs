@@ -22,11 +22,13 @@
 
 mod batch;
 mod geometry;
+mod media;
 mod status;
 mod types;
 
 pub use batch::*;
 pub use geometry::*;
+pub use media::*;
 pub use status::*;
 pub use types::*;
 
