@@ -546,6 +546,28 @@ FlatrayStatus flatray_group_index_pure_water(double temperature_c,
                                                   double *out_n);
 
 /*
+ Water of known density (extension): IAPWS R9-97 itself, for callers with
+ their own equation of state (supercooled water included).
+
+ `temperature_c` −12 to 500 °C, `density_kg_per_m3` 0–1060 kg m⁻³,
+ `wavelength_nm` 200–1100 nm (vacuum): the release's range. Writes the
+ absolute phase index.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an argument is NaN or infinite.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: an argument outside the ranges above.
+
+ # Safety
+ `out_n`: NULL or valid for writing one `double`.
+ */
+FlatrayStatus flatray_index_water_at_density(double temperature_c,
+                                                  double density_kg_per_m3,
+                                                  double wavelength_nm,
+                                                  double *out_n);
+
+/*
  Seawater at the surface (101 325 Pa): Quan and Fry (1995), converted to an
  absolute index at the vacuum wavelength on the standard-air footing.
 

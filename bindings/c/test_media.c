@@ -328,6 +328,44 @@ static void test_pure_water_values(void)
     clear_context();
 }
 
+static void test_water_at_density(void)
+{
+    /* R9-97 check values, as quoted in the docstring of _Refractive in the
+       iapws package 1.5.5 (citing the release): half a unit in the 8th
+       decimal. */
+    static const double ok[][4] = {
+        { 25.0, 997.047435, 226.5, 1.39277824 },
+        { 500.0, 30.4758534, 589.3, 1.00949307 },
+    };
+    /* Finite values outside -12..500 C, 0..1060 kg/m3, 200..1100 nm. */
+    static const double out_of_range[3][2] = { { -12.5, 500.5 }, { -1.0, 1060.5 }, { 199.0, 1101.0 } };
+    double args[3], n;
+    size_t i;
+    int k, p;
+    for (i = 0; i < 2; i++) {
+        set_context("water at density, row %d", (int)i);
+        CHECK_STATUS(flatray_index_water_at_density(ok[i][0], ok[i][1], ok[i][2], &n), FLATRAY_OK);
+        CHECK_NEAR(n, ok[i][3], 5e-9);
+    }
+    /* Supercooled water is inside R9-97 when the density is given. */
+    CHECK_STATUS(flatray_index_water_at_density(-10.0, 998.1, 532.0, &n), FLATRAY_OK);
+    CHECK_STATUS(flatray_index_water_at_density(20.0, 998.2, 532.0, NULL), FLATRAY_ERR_NULL_POINTER);
+    for (k = 0; k < 3; k++) {
+        for (p = 0; p < POISON_COUNT + 2; p++) {
+            args[0] = 20.0;
+            args[1] = 998.2;
+            args[2] = 532.0;
+            args[k] = p < POISON_COUNT ? poison(p) : out_of_range[k][p - POISON_COUNT];
+            set_context("water at density, argument %d = %g", k, args[k]);
+            n = SENTINEL;
+            CHECK_STATUS(flatray_index_water_at_density(args[0], args[1], args[2], &n),
+                         p < POISON_COUNT ? FLATRAY_ERR_INVALID_ARGUMENT : FLATRAY_ERR_OUT_OF_RANGE);
+            CHECK_NAN(n);
+        }
+    }
+    clear_context();
+}
+
 static void test_seawater_values(void)
 {
     /* The test's own Quan-Fry, checked against the hand value of
@@ -702,6 +740,7 @@ int main(void)
     test_error_paths();
     test_group_indices_by_difference();
     test_pure_water_values();
+    test_water_at_density();
     test_seawater_values();
     test_air_values();
     test_material_values();

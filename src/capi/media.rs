@@ -47,7 +47,7 @@
 
 use super::{deliver, guard, required, required_out, FlatrayStatus};
 use crate::media::{
-    Air, Cauchy, Footing, IndexSample, Material, PureWater, Seawater, Sellmeier,
+    water, Air, Cauchy, Footing, IndexSample, Material, PureWater, Seawater, Sellmeier,
     STANDARD_PRESSURE_PA,
 };
 
@@ -209,6 +209,42 @@ pub unsafe extern "C" fn flatray_group_index_pure_water(
         unsafe {
             write_index(out_n, Kind::Group, || {
                 Ok(PureWater::new(temperature_c, pressure_pa).sample(wavelength_nm)?)
+            })
+        }
+    })
+}
+
+/// Water of known density (extension): IAPWS R9-97 itself, for callers with
+/// their own equation of state (supercooled water included).
+///
+/// `temperature_c` −12 to 500 °C, `density_kg_per_m3` 0–1060 kg m⁻³,
+/// `wavelength_nm` 200–1100 nm (vacuum): the release's range. Writes the
+/// absolute phase index.
+///
+/// # Returns
+/// * `FLATRAY_OK`
+/// * `FLATRAY_ERR_NULL_POINTER`: `out_n` is NULL.
+/// * `FLATRAY_ERR_INVALID_ARGUMENT`: an argument is NaN or infinite.
+/// * `FLATRAY_ERR_OUT_OF_RANGE`: an argument outside the ranges above.
+///
+/// # Safety
+/// `out_n`: NULL or valid for writing one `double`.
+#[no_mangle]
+pub unsafe extern "C" fn flatray_index_water_at_density(
+    temperature_c: f64,
+    density_kg_per_m3: f64,
+    wavelength_nm: f64,
+    out_n: *mut f64,
+) -> FlatrayStatus {
+    guard(|| {
+        // SAFETY: caller contract.
+        unsafe {
+            write_index(out_n, Kind::Phase, || {
+                Ok(water::sample_at_density(
+                    temperature_c,
+                    density_kg_per_m3,
+                    wavelength_nm,
+                )?)
             })
         }
     })
