@@ -56,6 +56,42 @@ from .image import (
     true_position,
 )
 from .batch import PointBatch, RayBatch, apparent_positions, trace_rays, true_positions
+from .media import (
+    STANDARD_PRESSURE_PA,
+    Air,
+    Cauchy,
+    FixedIndex,
+    Footing,
+    IndexResult,
+    Material,
+    Medium,
+    PureWater,
+    Seawater,
+    Sellmeier,
+    StackBuilder,
+    air,
+    as_medium,
+    build_stack,
+    cauchy,
+    fixed_index,
+    group_index_air,
+    group_index_cauchy,
+    group_index_material,
+    group_index_pure_water,
+    group_index_seawater,
+    group_index_sellmeier,
+    index_air,
+    index_cauchy,
+    index_material,
+    index_pure_water,
+    index_seawater,
+    index_sellmeier,
+    index_water_at_density,
+    material_wavelength_range,
+    pure_water,
+    seawater,
+    sellmeier,
+)
 
 
 def library_version() -> str:
@@ -78,4 +114,13 @@ __all__ = [
     "apparent_position", "true_position", "apparent_depth", "true_depth",
     "apparent_depth_deg", "true_depth_deg",
     "PointBatch", "RayBatch", "true_positions", "apparent_positions", "trace_rays",
+    # Refractive indices and the stack builder (flatray.media).
+    "STANDARD_PRESSURE_PA", "Material", "Footing", "IndexResult",
+    "index_pure_water", "group_index_pure_water", "index_water_at_density",
+    "index_seawater", "group_index_seawater", "index_air", "group_index_air",
+    "index_material", "group_index_material", "material_wavelength_range",
+    "index_sellmeier", "group_index_sellmeier", "index_cauchy", "group_index_cauchy",
+    "Medium", "Air", "PureWater", "Seawater", "Sellmeier", "Cauchy", "FixedIndex",
+    "air", "pure_water", "seawater", "sellmeier", "cauchy", "fixed_index", "as_medium",
+    "StackBuilder", "build_stack",
 ]

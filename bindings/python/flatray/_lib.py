@@ -86,6 +86,44 @@ PROTOTYPES: dict[str, tuple[object, list[object]]] = {
         [ctypes.c_double, ctypes.c_double, ctypes.c_double, ctypes.c_double, ctypes.c_int32,
          _P(ctypes.c_double)],
     ),
+    # Refractive indices (issue 3). `const double b[3]` is `double *` to ctypes.
+    **{name: (_STATUS, [ctypes.c_double] * 3 + [_P(ctypes.c_double)]) for name in (
+        "flatray_index_pure_water", "flatray_group_index_pure_water",
+        "flatray_index_water_at_density",
+        "flatray_index_seawater", "flatray_group_index_seawater",
+    )},
+    **{name: (_STATUS, [ctypes.c_double] * 4 + [_P(ctypes.c_double)]) for name in (
+        "flatray_index_seawater_at_pressure", "flatray_group_index_seawater_at_pressure",
+        "flatray_index_cauchy", "flatray_group_index_cauchy",
+        "flatray_index_air", "flatray_group_index_air",
+    )},
+    "flatray_index_material": (
+        _STATUS, [ctypes.c_int32, ctypes.c_double, _P(ctypes.c_double)],
+    ),
+    "flatray_group_index_material": (
+        _STATUS, [ctypes.c_int32, ctypes.c_double, _P(ctypes.c_double)],
+    ),
+    "flatray_material_wavelength_range": (
+        _STATUS, [ctypes.c_int32, _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
+    "flatray_index_sellmeier": (
+        _STATUS, [_P(ctypes.c_double), _P(ctypes.c_double), ctypes.c_double,
+                  _P(ctypes.c_double)],
+    ),
+    "flatray_group_index_sellmeier": (
+        _STATUS, [_P(ctypes.c_double), _P(ctypes.c_double), ctypes.c_double,
+                  _P(ctypes.c_double)],
+    ),
+    "flatray_sample_sellmeier": (
+        _STATUS,
+        [_P(ctypes.c_double), _P(ctypes.c_double), ctypes.c_int32, ctypes.c_double,
+         ctypes.c_double, ctypes.c_double, _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
+    "flatray_sample_cauchy": (
+        _STATUS,
+        [ctypes.c_double, ctypes.c_double, ctypes.c_double, ctypes.c_int32, ctypes.c_double,
+         ctypes.c_double, ctypes.c_double, _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
     "flatray_version": (ctypes.c_char_p, []),
     "flatray_status_message": (ctypes.c_char_p, [ctypes.c_int32]),
 }

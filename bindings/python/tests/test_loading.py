@@ -112,6 +112,8 @@ def _header_functions():
         if params and params != "void":
             for p in params.split(","):
                 p = " ".join(p.split())
+                # An array parameter (`const double b[3]`) is a pointer in C.
+                p = re.sub(r"^(.*?)(\w+)\[\d+\]$", r"\1*\2", p)
                 declared = re.match(r"(.*?)(\w+)$", p)
                 argtypes.append(_ctype(declared.group(1)))
         found[name] = (_ctype(restype.strip()), argtypes)
@@ -120,7 +122,7 @@ def _header_functions():
 
 def test_every_header_function_is_declared_exactly():
     header = _header_functions()
-    assert len(header) == 14
+    assert len(header) == 32
     assert set(header) == set(_lib.PROTOTYPES)
     for name, (restype, argtypes) in header.items():
         function = getattr(flatray.lib, name)
@@ -165,3 +167,9 @@ def test_enums_and_constants_match_the_header():
     assert status == {s.c_name: int(s) for s in flatray.Status}
     images = {k: int(v) for k, v in re.findall(r"FLATRAY_IMAGE_(\w+) = (\d+)", text)}
     assert images == {i.name: int(i) for i in flatray.Image}
+    materials = {k: int(v) for k, v in re.findall(r"FLATRAY_MATERIAL_(\w+) = (\d+)", text)}
+    assert materials == {m.name: int(m) for m in flatray.Material}
+    footings = {k: int(v) for k, v in re.findall(r"FLATRAY_FOOTING_(\w+) = (\d+)", text)}
+    assert footings == {f.name: int(f) for f in flatray.Footing}
+    pressure = re.search(r"#define FLATRAY_STANDARD_PRESSURE_PA ([\d.]+)", text).group(1)
+    assert float(pressure) == flatray.STANDARD_PRESSURE_PA
