@@ -4,12 +4,16 @@
 //! 25 m above a calm lagoon and photographs marker plates lying on a sand floor
 //! 3 m deep; then an inspection camera in a housing with an 8 mm glass port
 //! looks at a target 1.5 m away. flatray tells where things appear and where
-//! they really are.
+//! they really are. Part 3 takes its indices from the media models instead
+//! (`flatray::media`) and shows how much the water's temperature and salt move
+//! a corrected depth.
 //!
 //! Run: `cargo run --release --example reef_survey`
 
+use flatray::media::STANDARD_PRESSURE_PA;
 use flatray::{
-    apparent_position, line_of_sight, trace, true_position, Image, Layer, Ray, Stack, Vec3,
+    apparent_position, line_of_sight, trace, true_position, Image, Layer, Material, Medium, Ray,
+    Stack, StackBuilder, Vec3,
 };
 
 /// Typical refractive indices near 532 nm (green survey light), from memory;
@@ -26,6 +30,8 @@ fn main() -> Result<(), flatray::Error> {
     drone_over_lagoon()?;
     println!();
     camera_in_housing()?;
+    println!();
+    water_conditions()?;
     println!();
     println!("CAUTION: water always looks shallower than it is. Never judge the depth of water");
     println!("for diving, jumping or wading by eye or from uncorrected images, and treat these");
@@ -127,4 +133,96 @@ fn camera_in_housing() -> Result<(), flatray::Error> {
     );
     println!("   an in-air calibration does not hold in water.");
     Ok(())
+}
+
+/// Green survey light, vacuum wavelength in nm.
+const GREEN_NM: f64 = 532.0;
+
+fn water_conditions() -> Result<(), flatray::Error> {
+    // Indices from the models: air at 1 atm (20 °C, 50 % humidity), cold
+    // seawater (4 °C, 35 PSU) and warm fresh water (25 °C).
+    let camera_air = Medium::air(20.0, STANDARD_PRESSURE_PA, 0.5);
+    let cold_sea = Medium::seawater(4.0, 35.0);
+    let warm_fresh = Medium::pure_water(25.0, STANDARD_PRESSURE_PA);
+    let sapphire = Medium::Material(Material::SapphireOrdinary);
+
+    // The camera in air at 1 atm behind an 8 mm sapphire port, in seawater at
+    // 4 °C and 35 PSU, at 532 nm; the port's inner face 40 mm ahead, z forward.
+    let port = |water: Medium| {
+        StackBuilder::new(camera_air, water)
+            .origin(Vec3::new(0.0, 0.0, 0.040))
+            .layer(0.008, sapphire)
+            .build(GREEN_NM)
+    };
+    // The drone 25 m above the water, z up, surface at z = 0.
+    let surface = |water: Medium| {
+        StackBuilder::new(camera_air, water)
+            .normal(Vec3::new(0.0, 0.0, -1.0))
+            .build(GREEN_NM)
+    };
+    let housing = port(cold_sea)?;
+    println!("3. Indices from the media models at {GREEN_NM} nm (camera in air at 1 atm,");
+    println!("   8 mm sapphire port, seawater at 4 °C and 35 PSU, built with StackBuilder):");
+    println!(
+        "   air {:.6}, sapphire {:.5}, seawater {:.5}; warm fresh water (25 °C) {:.5}",
+        housing.n_observer(),
+        housing.layers().first().map_or(f64::NAN, |l| l.index),
+        housing.n_object(),
+        warm_fresh.index(GREEN_NM)?,
+    );
+    println!("   An object 5.00 m deep in the cold seawater (for the camera: 5.00 m beyond the");
+    println!("   port) appears shallower; here is the true depth recovered from that apparent");
+    println!("   point with each water model.");
+    println!(
+        "{:>34} {:>10} {:>15} {:>15} {:>12}",
+        "view", "apparent", "true depth as", "true depth as", "difference"
+    );
+    println!(
+        "{:>34} {:>10} {:>15} {:>15} {:>12}",
+        "", "depth (m)", "4 °C sea (m)", "25 °C fresh (m)", "(cm)"
+    );
+
+    let drone = Vec3::new(0.0, 0.0, 25.0);
+    let (sea, fresh) = (surface(cold_sea)?, surface(warm_fresh)?);
+    for view_deg in [0.0f64, 30.0, 50.0] {
+        let a = view_deg.to_radians();
+        let ray = Ray::new(drone, Vec3::new(a.sin(), 0.0, -a.cos()));
+        let down = trace(&sea, ray)?.ray;
+        let object = down.at(5.0 / -down.direction.z);
+        let seen = apparent_position(&sea, drone, object, Image::Sagittal)?;
+        let as_sea = true_position(&sea, drone, seen, Image::Sagittal)?;
+        let as_fresh = true_position(&fresh, drone, seen, Image::Sagittal)?;
+        print_depths(
+            &format!("drone 25 m up, {view_deg:.0}° off nadir"),
+            -seen.z,
+            -as_sea.z,
+            -as_fresh.z,
+        );
+    }
+    let camera = Vec3::ZERO;
+    let fresh_housing = port(warm_fresh)?;
+    let outer_face = 0.048; // the port's outer face, metres ahead of the camera
+    for field_deg in [0.0f64, 30.0] {
+        let f = field_deg.to_radians();
+        let object = Vec3::new(5.0 * f.tan(), 0.0, outer_face + 5.0);
+        let seen = apparent_position(&housing, camera, object, Image::Sagittal)?;
+        let as_sea = true_position(&housing, camera, seen, Image::Sagittal)?;
+        let as_fresh = true_position(&fresh_housing, camera, seen, Image::Sagittal)?;
+        print_depths(
+            &format!("sapphire-port camera, {field_deg:.0}° field"),
+            seen.z - outer_face,
+            as_sea.z - outer_face,
+            as_fresh.z - outer_face,
+        );
+    }
+    println!("   Correcting with the wrong water (warm fresh instead of cold salt) leaves a few");
+    println!("   centimetres of error at 5 m: measure temperature and salinity, not just depth.");
+    Ok(())
+}
+
+fn print_depths(view: &str, apparent: f64, as_sea: f64, as_fresh: f64) {
+    println!(
+        "{view:>34} {apparent:>10.3} {as_sea:>15.3} {as_fresh:>15.3} {:>+12.1}",
+        100.0 * (as_fresh - as_sea)
+    );
 }
