@@ -127,3 +127,15 @@ fn subnormal_vectors_have_a_length() {
     );
     assert!(Vec3::new(5e-324, 5e-324, 0.0).length() > 0.0);
 }
+
+/// A NaN temperature beside a finite, out-of-range wavelength (media target):
+/// the wavelength was range-checked first and the call returned OUT_OF_RANGE,
+/// against the rule that a NaN or infinite argument is INVALID_ARGUMENT. Now
+/// every model checks all its inputs for finiteness before any range.
+#[test]
+fn nan_beside_an_out_of_range_value_is_invalid() {
+    let mut n = 0.0;
+    let status = unsafe { flatray_index_pure_water(f64::NAN, -1.1e7, -15.0, &mut n) };
+    assert_eq!(status, FlatrayStatus::FLATRAY_ERR_INVALID_ARGUMENT);
+    assert!(n.is_nan());
+}

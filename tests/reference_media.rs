@@ -433,6 +433,24 @@ fn bad_input_is_rejected_with_the_right_status() {
         assert!(out(m.index(0.0)), "{m:?}");
         assert!(invalid(m.group_index(f64::NEG_INFINITY)), "{m:?}");
     }
+    // Non-finite inputs are checked before any range: a NaN next to a finite
+    // out-of-range value is still InvalidArgument (found by the media fuzz target).
+    assert!(invalid(Medium::pure_water(f64::NAN, -1.1e7).index(-15.0)));
+    assert!(invalid(Medium::seawater(50.0, f64::NAN).index(532.0)));
+    assert!(invalid(Medium::air(20.0, 5e5, f64::INFINITY).index(100.0)));
+    assert!(invalid(
+        Seawater::new(4.0, 35.0)
+            .with_pressure(f64::NAN)
+            .refractive_index(900.0)
+    ));
+    assert!(matches!(
+        water::index_at_density(f64::NAN, 2000.0, 532.0),
+        Err(Error::InvalidArgument(_))
+    ));
+    assert!(matches!(
+        if97::density_kg_per_m3(500.0, f64::NAN),
+        Err(Error::InvalidArgument(_))
+    ));
     // Out-of-range temperature, salinity, pressure.
     assert!(out(Medium::pure_water(-5.0, 101_325.0).index(532.0)));
     assert!(out(Medium::pure_water(20.0, 150e6).index(532.0)));

@@ -242,6 +242,20 @@ static void test_error_paths(void)
                     CHECK_STATUS(fns[f](args, &out), FLATRAY_ERR_INVALID_ARGUMENT);
                     CHECK_NAN(out);
                 }
+                /* A NaN next to a finite out-of-range value is still invalid:
+                   non-finite arguments are checked before any range. */
+                for (p = 0; p < m->nargs; p++) {
+                    if (p == i || m->out_of_range[p][0] == NONE)
+                        continue;
+                    set_context("%s (%s): argument %d = NaN, argument %d = %g", m->name, kind, i,
+                                p, m->out_of_range[p][0]);
+                    copy_args(args, m);
+                    args[i] = NAN;
+                    args[p] = m->out_of_range[p][0];
+                    out = SENTINEL;
+                    CHECK_STATUS(fns[f](args, &out), FLATRAY_ERR_INVALID_ARGUMENT);
+                    CHECK_NAN(out);
+                }
                 for (p = 0; p < 2; p++) {
                     double bad = m->out_of_range[i][p];
                     if (bad == NONE)

@@ -11,7 +11,8 @@
 //!   **vacuum** wavelength in nanometres. Temperatures in °C, pressures absolute
 //!   in Pa (101 325 Pa at sea level), salinity practical (PSU), relative
 //!   humidity a fraction 0…1.
-//! * A NaN or infinite argument is `FLATRAY_ERR_INVALID_ARGUMENT`; a finite
+//! * A NaN or infinite argument is `FLATRAY_ERR_INVALID_ARGUMENT` (checked
+//!   before any range, so whatever the other arguments hold); a finite
 //!   argument outside the model's range of validity (a wavelength ≤ 0, a negative
 //!   pressure or salinity and a temperature below absolute zero included) is
 //!   `FLATRAY_ERR_OUT_OF_RANGE`. An unknown `material` or `footing` code is

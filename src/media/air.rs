@@ -41,7 +41,7 @@
 
 use crate::error::{Error, Result};
 use crate::math;
-use crate::media::{amount_in, kelvin, temperature_in, wavelength_in, IndexSample};
+use crate::media::{all_finite, amount_in, kelvin, temperature_in, wavelength_in, IndexSample};
 
 /// CO₂ content assumed when none is given, ppm (µmol/mol): the reference value of
 /// Ciddor's standard air.
@@ -225,6 +225,10 @@ impl Air {
     /// # Errors
     /// As [`Air::sample`], without the wavelength.
     pub fn water_vapour_mole_fraction(&self) -> Result<f64> {
+        all_finite(
+            &[self.temperature_c, self.pressure_pa, self.relative_humidity],
+            "air: temperature_c, pressure_pa and relative_humidity must be finite",
+        )?;
         let t = temperature_in(
             self.temperature_c,
             -40.0,
@@ -267,6 +271,16 @@ impl Air {
     /// the module docs (a wavelength ≤ 0, a temperature below absolute zero, a
     /// negative pressure, humidity or CO₂ content included).
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
+        all_finite(
+            &[
+                self.temperature_c,
+                self.pressure_pa,
+                self.relative_humidity,
+                self.co2_ppm,
+                wavelength_nm,
+            ],
+            "air: every condition and the wavelength must be finite",
+        )?;
         let l = wavelength_in(
             wavelength_nm,
             MIN_WAVELENGTH_NM,

@@ -26,7 +26,7 @@
 
 use crate::error::{Error, Result};
 use crate::math;
-use crate::media::{amount_in, kelvin, temperature_in};
+use crate::media::{all_finite, amount_in, kelvin, temperature_in};
 
 /// Specific gas constant of water in IF97, J kg⁻¹ K⁻¹ (release eq. 1:
 /// 0.461526 kJ kg⁻¹ K⁻¹).
@@ -154,6 +154,10 @@ pub struct Region1Properties {
 /// Checks `(temperature_c, pressure_pa)` against region 1 and returns
 /// `(T in K, p in Pa)`.
 fn region1_state(temperature_c: f64, pressure_pa: f64) -> Result<(f64, f64)> {
+    all_finite(
+        &[temperature_c, pressure_pa],
+        "water: temperature_c and pressure_pa must be finite",
+    )?;
     let t_c = temperature_in(
         temperature_c,
         MIN_TEMPERATURE_C,

@@ -113,6 +113,18 @@ pub(crate) fn kelvin(t_c: f64) -> f64 {
     t_c + KELVIN_OFFSET
 }
 
+/// `Err(InvalidArgument(what))` unless every value is finite: checked before
+/// any range, so that a NaN or infinite argument is `InvalidArgument` whatever
+/// the others hold (a finite value out of range next to it does not turn it
+/// into `OutOfRange`).
+pub(crate) fn all_finite(values: &[f64], what: &'static str) -> Result<()> {
+    if values.iter().all(|v| v.is_finite()) {
+        Ok(())
+    } else {
+        Err(Error::InvalidArgument(what))
+    }
+}
+
 /// A temperature within `[lo, hi]` °C: non-finite is `InvalidArgument`; any
 /// finite value outside the range (below absolute zero included) is
 /// `OutOfRange(range_msg)`.

@@ -40,7 +40,7 @@ use crate::error::Result;
 use crate::media::air::absolute_from_standard_air;
 use crate::media::water::PureWater;
 use crate::media::STANDARD_PRESSURE_PA;
-use crate::media::{amount_in, if97, temperature_in, wavelength_in, IndexSample};
+use crate::media::{all_finite, amount_in, if97, temperature_in, wavelength_in, IndexSample};
 
 /// Shortest wavelength of the Quan-Fry data, nm.
 pub const MIN_WAVELENGTH_NM: f64 = 400.0;
@@ -97,6 +97,10 @@ pub fn quan_fry_relative_to_air(
     salinity_psu: f64,
     air_wavelength_nm: f64,
 ) -> Result<f64> {
+    all_finite(
+        &[temperature_c, salinity_psu, air_wavelength_nm],
+        "seawater: temperature_c, salinity_psu and the wavelength must be finite",
+    )?;
     let (t, s) = check_t_s(temperature_c, salinity_psu)?;
     let l = wavelength_in(
         air_wavelength_nm,
@@ -145,6 +149,15 @@ impl Seawater {
     /// [`Error::OutOfRange`](crate::Error::OutOfRange) outside 0–30 °C, 0–35 PSU, 400–700 nm or
     /// 0–100 MPa, or below the saturation pressure of water.
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
+        all_finite(
+            &[
+                self.temperature_c,
+                self.salinity_psu,
+                self.pressure_pa,
+                wavelength_nm,
+            ],
+            "seawater: every condition and the wavelength must be finite",
+        )?;
         let (t, s) = check_t_s(self.temperature_c, self.salinity_psu)?;
         let l = wavelength_in(
             wavelength_nm,

@@ -33,7 +33,8 @@
 use crate::error::{Error, Result};
 use crate::math;
 use crate::media::{
-    amount_in, if97, kelvin, temperature_in, wavelength_in, IndexSample, STANDARD_PRESSURE_PA,
+    all_finite, amount_in, if97, kelvin, temperature_in, wavelength_in, IndexSample,
+    STANDARD_PRESSURE_PA,
 };
 
 /// Shortest vacuum wavelength of R9-97, nm.
@@ -102,6 +103,10 @@ pub fn sample_at_density(
     density_kg_per_m3: f64,
     wavelength_nm: f64,
 ) -> Result<IndexSample> {
+    all_finite(
+        &[temperature_c, density_kg_per_m3, wavelength_nm],
+        "water: temperature_c, density_kg_per_m3 and wavelength_nm must be finite",
+    )?;
     let t = temperature_in(
         temperature_c,
         MIN_TEMPERATURE_C,
@@ -180,6 +185,10 @@ impl PureWater {
     /// [`Error::OutOfRange`] outside 0–350 °C, 0–100 MPa or 200–1100 nm, or
     /// below the saturation pressure (boiling water).
     pub fn sample(&self, wavelength_nm: f64) -> Result<IndexSample> {
+        all_finite(
+            &[self.temperature_c, self.pressure_pa, wavelength_nm],
+            "water: temperature_c, pressure_pa and wavelength_nm must be finite",
+        )?;
         let l = wavelength_in(
             wavelength_nm,
             MIN_WAVELENGTH_NM,

@@ -72,6 +72,17 @@ def test_non_finite_arguments_raise_invalid_argument(model):
 
 
 @pytest.mark.parametrize("model", MODELS, ids=IDS)
+def test_nan_beside_an_out_of_range_value_is_invalid(model):
+    # Non-finite arguments are checked before any range (src/media/mod.rs).
+    phase, _, args, _, ranges = model
+    for i in range(len(args)):
+        for j, values in enumerate(ranges):
+            if j != i:
+                with pytest.raises(flatray.InvalidArgumentError):
+                    phase(*_with(_with(args, j, values[0]), i, NAN))
+
+
+@pytest.mark.parametrize("model", MODELS, ids=IDS)
 def test_finite_values_outside_validity_raise_out_of_range(model):
     phase, group, args, _, ranges = model
     for fn in filter(None, (phase, group)):
