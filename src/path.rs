@@ -76,6 +76,10 @@ pub fn trace(stack: &Stack, observer_ray: Ray) -> Result<Traced> {
     // `continue_into`): η = n/n0, q = n cos θ / n0, tan θ = sin θ0 / q.
     let n0 = stack.n_observer();
     let tangential = d - normal * cos0; // length sin θ0
+                                        // A second projection removes the rounding residue along the normal, which
+                                        // the lateral steps (1/q per metre, large for a much thinner medium) would
+                                        // otherwise turn into a visible height error (a fuzz finding).
+    let tangential = tangential - normal * tangential.dot(normal);
     let inc = Incidence::from_parts(cos0, tangential);
     let mut position = origin + d * (-h0 / cos0);
     let mut prev_n = n0;

@@ -139,3 +139,35 @@ fn nan_beside_an_out_of_range_value_is_invalid() {
     assert_eq!(status, FlatrayStatus::FLATRAY_ERR_INVALID_ARGUMENT);
     assert!(n.is_nan());
 }
+
+/// A ray along the normal into a layer of index 5.6e-309 below an observer's
+/// 1e-300 (η ≈ 6e-9): the rounding residue of the tangential part along the
+/// normal, multiplied by 1/q ≈ 4e6 per metre, put the traced ray 6.5e-10 m off
+/// the last interface. The tangential part is now projected twice.
+#[test]
+fn traced_rays_stay_on_the_last_interface_through_a_much_thinner_layer() {
+    let tiny = 5.562_684_646_268_003e-309;
+    let stack = FlatrayStack {
+        origin: Vec3::new(0.017_059_326_167_720_63, 1e-300, 1e-300),
+        normal: Vec3::new(1e-300, -0.0, 1e-300),
+        n_observer: 1e-300,
+        layer_count: 7,
+        thickness: [
+            1e-300,
+            1e-300,
+            1e-300,
+            0.022_941_176_470_612_84,
+            tiny,
+            tiny,
+            tiny,
+            tiny,
+        ],
+        n_layer: [1e-300, 1e-300, 1e-300, tiny, tiny, tiny, tiny, tiny],
+        n_object: 1e-300,
+    };
+    let ray = Ray::new(Vec3::new(tiny, tiny, tiny), Vec3::new(1e-300, 0.0, 1e-300));
+    let s = stack.to_stack().unwrap();
+    let out = flatray::trace(&s, ray).unwrap();
+    let off = s.height(out.ray.origin) - s.total_thickness();
+    assert!(off.abs() < 1e-12, "{off:e} m off the last interface");
+}
