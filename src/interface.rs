@@ -205,15 +205,18 @@ impl Fresnel {
     /// cancels). Hecht eqs. 4.42–4.45 squared, with `T = 1 − R` written out:
     ///
     /// `Rs = ((a − b)/(a + b))²`, `Ts = 4ab/(a + b)²`;
-    /// with `x = η a` and `y = b/η` (Hecht's `n_t cos θ_i` and `n_i cos θ_t`,
-    /// scaled by `n_i`): `Rp = ((x − y)/(x + y))²`, `Tp = 4xy/(x + y)²`.
+    /// with `x = η² a` and `y = b` (Hecht's `n_t cos θ_i` and `n_i cos θ_t`,
+    /// both scaled by `n_i η = n_t`): `Rp = ((x − y)/(x + y))²`, `Tp = 4xy/(x + y)²`.
     ///
-    /// Each pair is divided by its larger member first, so nothing overflows.
-    /// Requires `a, b >= 0`, not both 0, and `η` within [`MAX_INDEX_RATIO`].
+    /// Evaluated as `Ts = 4 (a s)(b s)` with `s = 1/(a + b)`, so each factor is in
+    /// `[0, 1]`: no overflow for the magnitudes flatray admits (`η` within
+    /// [`MAX_INDEX_RATIO`], projections below `η`), `T ≤ 1` without clamping,
+    /// and both `T` and `R` keep their relative accuracy at grazing incidence.
+    /// Requires `a, b >= 0`, not both 0.
     #[inline]
     pub(crate) fn from_projections(eta: f64, a: f64, b: f64) -> Fresnel {
         let (rs, ts) = reflect_transmit(a, b);
-        let (rp, tp) = reflect_transmit(eta * a, b / eta);
+        let (rp, tp) = reflect_transmit(eta * eta * a, b);
         Fresnel {
             rs,
             rp,
@@ -225,16 +228,15 @@ impl Fresnel {
     }
 }
 
-/// `(((u − v)/(u + v))², 4uv/(u + v)²)` for `u, v >= 0` not both zero, scaled
-/// by the larger so that neither the sum nor the products overflow.
+/// `(((u − v)/(u + v))², 4uv/(u + v)²)` for `u, v >= 0` not both zero, as
+/// `((u s − v s)², 4 (u s)(v s))` with `s = 1/(u + v)`: one division, factors in
+/// `[0, 1]`.
 #[inline]
 fn reflect_transmit(u: f64, v: f64) -> (f64, f64) {
-    let m = u.max(v);
-    let (u, v) = (u / m, v / m);
-    let sum = u + v;
-    let diff = (u - v) / sum;
-    // 4uv/(u + v)² ≤ 1 exactly; rounding can exceed 1 by an ulp when u ≈ v.
-    (diff * diff, (4.0 * u * v / (sum * sum)).min(1.0))
+    let s = 1.0 / (u + v);
+    let (us, vs) = (u * s, v * s);
+    let diff = us - vs;
+    (diff * diff, 4.0 * us * vs)
 }
 
 /// Fresnel power coefficients for light meeting a flat interface from a medium

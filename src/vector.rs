@@ -55,16 +55,19 @@ impl Vec3 {
     /// vector near `f64::MAX` is finite when it is representable.
     #[inline]
     pub fn length(self) -> f64 {
+        let sq = self.dot(self);
+        // Fast path: the sum of squares neither overflowed nor lost digits to
+        // underflow (each square of a component above 1e-146 is normal).
+        if (1e-290..=1e290).contains(&sq) {
+            return math::sqrt(sq);
+        }
         let m = self.x.abs().max(self.y.abs()).max(self.z.abs());
         if m == 0.0 || !m.is_finite() {
             return m;
         }
-        if !(1e-150..=1e150).contains(&m) {
-            // Divide (not multiply by 1/m, which overflows for subnormal m).
-            let s = Vec3::new(self.x / m, self.y / m, self.z / m);
-            return m * math::sqrt(s.dot(s));
-        }
-        math::sqrt(self.dot(self))
+        // Divide (not multiply by 1/m, which overflows for subnormal m).
+        let s = Vec3::new(self.x / m, self.y / m, self.z / m);
+        m * math::sqrt(s.dot(s))
     }
 
     /// `true` when every component is finite.
