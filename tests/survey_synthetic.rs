@@ -68,12 +68,18 @@ fn cameras_of(k: usize) -> Vec<Vec3> {
 }
 
 fn exact_sight(stack: &Stack, camera: Vec3, object: Vec3) -> Ray {
-    Ray::new(camera, line_of_sight(stack, camera, object).unwrap().direction)
+    Ray::new(
+        camera,
+        line_of_sight(stack, camera, object).unwrap().direction,
+    )
 }
 
 /// What a refraction-blind triangulation reports for `object`.
 fn straight_point(stack: &Stack, cameras: &[Vec3], object: Vec3) -> Vec3 {
-    let sights: Vec<Ray> = cameras.iter().map(|&c| exact_sight(stack, c, object)).collect();
+    let sights: Vec<Ray> = cameras
+        .iter()
+        .map(|&c| exact_sight(stack, c, object))
+        .collect();
     lines::intersect(&sights).unwrap().point
 }
 
@@ -121,7 +127,10 @@ fn multiview_recovers_true_points_and_the_shortcut_does_not() {
     );
     // The shortcut is an approximation: for these layouts it misses by more than a
     // millimetre somewhere (the issue: "by decimetres" for real layouts).
-    assert!(worst_shortcut > 1e-3, "shortcut worst error {worst_shortcut}");
+    assert!(
+        worst_shortcut > 1e-3,
+        "shortcut worst error {worst_shortcut}"
+    );
 }
 
 #[test]
@@ -146,7 +155,10 @@ fn triangulating_exact_lines_of_sight_recovers_true_points() {
     let mut worst: f64 = 0.0;
     for (k, &truth) in bed_points().iter().enumerate() {
         let cams = cameras_of(k);
-        let sights: Vec<Ray> = cams.iter().map(|&c| exact_sight(&stack, c, truth)).collect();
+        let sights: Vec<Ray> = cams
+            .iter()
+            .map(|&c| exact_sight(&stack, c, truth))
+            .collect();
         let hit = triangulate(&stack, &sights).unwrap();
         let err = (hit.point - truth).length();
         assert!(err <= RECOVERY_M, "point {k}: error {err:.3e} m");
@@ -212,8 +224,15 @@ fn batches_match_the_single_point_functions() {
         }
     }
     let mut out = vec![Vec3::ZERO; n];
-    let report =
-        triangulations(&stack, &lines_all, &line_offsets, &mut out, None, &mut NoStatus).unwrap();
+    let report = triangulations(
+        &stack,
+        &lines_all,
+        &line_offsets,
+        &mut out,
+        None,
+        &mut NoStatus,
+    )
+    .unwrap();
     assert_eq!(report.failed, 0);
     for (k, &truth) in points.iter().enumerate() {
         assert_near(out[k], truth, RECOVERY_M, "batch triangulation");
@@ -246,7 +265,10 @@ fn multiview_through_a_layered_window() {
         let seen = straight_point(&stack, &cams, truth);
         let fixed = correct_multiview(&stack, &cams, seen).unwrap();
         assert_near(fixed.point, truth, RECOVERY_M, "through the wall");
-        let sights: Vec<Ray> = cams.iter().map(|&c| exact_sight(&stack, c, truth)).collect();
+        let sights: Vec<Ray> = cams
+            .iter()
+            .map(|&c| exact_sight(&stack, c, truth))
+            .collect();
         assert_near(
             triangulate(&stack, &sights).unwrap().point,
             truth,
@@ -260,7 +282,10 @@ fn multiview_through_a_layered_window() {
 /// interface: (in the observer's medium, in the object's medium).
 fn segments(stack: &Stack, sensor: Vec3, object: Vec3) -> (f64, f64) {
     let path = line_of_sight(stack, sensor, object).unwrap();
-    ((path.entry - sensor).length(), (object - path.exit).length())
+    (
+        (path.entry - sensor).length(),
+        (object - path.exit).length(),
+    )
 }
 
 #[test]
@@ -348,7 +373,10 @@ fn ranges_ending_in_the_air_or_inside_a_layer() {
     );
     // Pointing away from the window: unchanged.
     let away = sensor - dir;
-    assert_eq!(correct_range(&stack, sensor, away, Some(&groups)).unwrap(), away);
+    assert_eq!(
+        correct_range(&stack, sensor, away, Some(&groups)).unwrap(),
+        away
+    );
     // Inside the window: trace to the window, go 5 mm along the refracted ray.
     let d = dir.direction("dir").unwrap();
     let to_window = 0.05 / d.z;
