@@ -19,7 +19,7 @@
 
 use crate::batch::{run_points, BatchReport, StatusSink};
 use crate::error::{positive, Error, Result};
-use crate::interface::n_cos_in;
+use crate::interface::{continue_into, Incidence};
 use crate::media::StackBuilder;
 use crate::path::MAX_MEDIA;
 use crate::stack::Stack;
@@ -188,33 +188,28 @@ pub fn correct_range(
     // Group path left after the observer's medium, metres × index.
     let mut remaining = ng0 * (range - to_surface);
     let n0 = stack.n_observer();
-    let ncos0 = n0 * cos0;
     let tangential = d - normal * cos0; // length sin θ0
+    let inc = Incidence::from_parts(cos0, tangential);
     let mut position = sensor + d * to_surface;
-    let medium_ray = |n: f64| -> Result<(f64, Vec3)> {
-        match n_cos_in(n0, ncos0, n) {
-            Some(ncos) if ncos > 0.0 => {
-                // Unit direction in the medium: (n0 sin θ0 ê + n cos θ n̂) / n.
-                Ok((ncos, (tangential * n0 + normal * ncos) * (1.0 / n)))
-            }
-            _ => Err(Error::TotalInternalReflection(
-                "the beam cannot enter a medium it must cross",
-            )),
-        }
+    // In a medium of index n = η n0 with q = n cos θ / n0
+    // (`interface::continue_into`): unit direction (sin θ0 ê + q n̂) / η, length
+    // per metre of thickness η / q, lateral advance per metre sin θ0 / q.
+    let medium_ray = |n: f64| -> Result<(f64, f64, Vec3)> {
+        let (eta, q) = continue_into(n, n0, inc)?;
+        Ok((eta, q, (tangential + normal * q) * (1.0 / eta)))
     };
     for layer in stack.layers() {
         let ng = g.next().unwrap_or(layer.index);
-        let (ncos, dir) = medium_ray(layer.index)?;
-        // Length in the layer: thickness / cos θ = thickness n / (n cos θ).
-        let length = layer.thickness * layer.index / ncos;
+        let (eta, q, dir) = medium_ray(layer.index)?;
+        let length = layer.thickness * eta / q;
         if remaining <= ng * length {
             return finish(position + dir * (remaining / ng));
         }
         remaining -= ng * length;
-        position += tangential * (n0 * layer.thickness / ncos) + normal * layer.thickness;
+        position += tangential * (layer.thickness / q) + normal * layer.thickness;
     }
     let ng = g.next().unwrap_or(stack.n_object());
-    let (_, dir) = medium_ray(stack.n_object())?;
+    let (_, _, dir) = medium_ray(stack.n_object())?;
     finish(position + dir * (remaining / ng))
 }
 
