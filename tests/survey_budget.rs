@@ -3,6 +3,8 @@
 //!
 //! Geometry invented; indices typical values from memory (any work).
 
+#![allow(clippy::needless_range_loop)] // matrices read clearer with indices
+
 mod common;
 
 use common::assert_close;
