@@ -505,15 +505,17 @@ impl Meter {
         } else if self.plain && bytes >= self.next_plain {
             eprintln!(
                 "flatray-correct: {:3}% ({rows} rows)",
-                (bytes * 100 / self.total).min(100)
+                (bytes * 100 / self.total).min(99)
             );
             self.next_plain = bytes + self.total / 10;
         }
     }
 
-    fn finish(&self) {
+    fn finish(&self, rows: usize) {
         if let Some(bar) = &self.bar {
             bar.finish_and_clear();
+        } else if self.plain {
+            eprintln!("flatray-correct: 100% ({rows} rows)");
         }
     }
 }
@@ -715,7 +717,7 @@ fn run(args: &Args) -> Result<Summary, Fatal> {
         meter.update(bytes, summary.rows);
     }
     writer.flush()?;
-    meter.finish();
+    meter.finish(summary.rows);
     if summary.bad_rows > REPORTED_BAD_ROWS {
         eprintln!(
             "flatray-correct: ... and {} more malformed rows (status bad_row in the output)",
