@@ -19,8 +19,11 @@ use crate::error::Status;
 /// the cheapest batches), far above rayon's per-task cost of well under 1 µs.
 pub const GRAIN: usize = 2048;
 
-/// Smallest batch that is split over threads.
+/// Smallest batch that is split over threads (for the default grain).
 pub const PARALLEL_MIN_LEN: usize = 2 * GRAIN;
+
+/// Elements per piece for costly elements (multi-view solves, triangulations).
+pub const COSTLY_GRAIN: usize = 32;
 
 /// Buffers of a batch that can be cut at an element index (input slices,
 /// output slices, optional outputs and tuples of them).
@@ -130,16 +133,35 @@ where
     S: StatusSink + ?Sized,
     W: Fn(usize, P, &mut SinkPart<'_>) -> BatchReport + Sync,
 {
+    run_with_grain(GRAIN, len, parts, status, work)
+}
+
+/// [`run`] with pieces of `grain` elements: smaller for costly elements (a
+/// multi-view solve takes ~10 µs, so 32 elements already outweigh rayon's
+/// per-task cost).
+pub(crate) fn run_with_grain<P, S, W>(
+    grain: usize,
+    len: usize,
+    parts: P,
+    status: &mut S,
+    work: W,
+) -> BatchReport
+where
+    P: Parts,
+    S: StatusSink + ?Sized,
+    W: Fn(usize, P, &mut SinkPart<'_>) -> BatchReport + Sync,
+{
+    let grain = grain.max(1);
     match status.slots() {
         SinkSlots::Statuses(s) => {
             let s = s.split(len).0;
-            split_run(0, len, parts, SinkPart::Statuses(s), &work)
+            split_run(grain, 0, len, parts, SinkPart::Statuses(s), &work)
         }
         SinkSlots::Codes(c) => {
             let c = c.split(len).0;
-            split_run(0, len, parts, SinkPart::Codes(c), &work)
+            split_run(grain, 0, len, parts, SinkPart::Codes(c), &work)
         }
-        SinkSlots::Discard => split_run(0, len, parts, SinkPart::Discard, &work),
+        SinkSlots::Discard => split_run(grain, 0, len, parts, SinkPart::Discard, &work),
         SinkSlots::Opaque => {
             // A sink of the caller's own type: run here, a piece at a time,
             // staging the statuses in a small local buffer.
@@ -165,24 +187,31 @@ where
     }
 }
 
-fn split_run<P, W>(offset: usize, len: usize, parts: P, sink: SinkPart<'_>, work: &W) -> BatchReport
+fn split_run<P, W>(
+    grain: usize,
+    offset: usize,
+    len: usize,
+    parts: P,
+    sink: SinkPart<'_>,
+    work: &W,
+) -> BatchReport
 where
     P: Parts,
     W: Fn(usize, P, &mut SinkPart<'_>) -> BatchReport + Sync,
 {
     #[cfg(feature = "parallel")]
-    if len >= PARALLEL_MIN_LEN {
+    if len >= 2 * grain {
         let mid = len / 2;
         let (p0, p1) = parts.split(mid);
         let (s0, s1) = sink.split(mid);
         let (r0, r1) = rayon::join(
-            || split_run(offset, mid, p0, s0, work),
-            || split_run(offset + mid, len - mid, p1, s1, work),
+            || split_run(grain, offset, mid, p0, s0, work),
+            || split_run(grain, offset + mid, len - mid, p1, s1, work),
         );
         return r0.merge(r1);
     }
     #[cfg(not(feature = "parallel"))]
-    let _ = len;
+    let _ = (grain, len);
     let mut sink = sink;
     work(offset, parts, &mut sink)
 }

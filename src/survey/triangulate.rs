@@ -148,7 +148,8 @@ where
     S: StatusSink + ?Sized,
     F: Fn(usize) -> Result<LinesPoint> + Sync,
 {
-    parallel::run(
+    parallel::run_with_grain(
+        parallel::COSTLY_GRAIN,
         n,
         (out, rms),
         status,
