@@ -31,25 +31,6 @@
 #define FLATRAY_MAX_LAYERS 8
 
 /*
- The single constant correction factor of clear water seen from air that
- practitioners apply at every view angle: 1.34 (Westaway, Lane and Hicks,
- 2001, see the [module docs](self)), the ratio of the refractive indices of
- water and air rounded to two decimals.
- */
-#define CLEAR_WATER_NADIR_FACTOR 1.34
-
-/*
- Elements per piece: a piece costs at least ~20 µs (20 ns per element for
- the cheapest batches), far above rayon's per-task cost of well under 1 µs.
- */
-#define GRAIN 2048
-
-/*
- Smallest batch that is split over threads.
- */
-#define PARALLEL_MIN_LEN (2 * GRAIN)
-
-/*
  Outcome of every fallible C function. The values are fixed and never
  renumbered; later versions only append.
  */
@@ -156,11 +137,6 @@ typedef enum FlatrayFooting {
    */
   FLATRAY_FOOTING_STANDARD_AIR = 1,
 } FlatrayFooting;
-
-/*
- Accuracy settings of [`correct_multiview_with`].
- */
-typedef struct MultiviewOptions MultiviewOptions;
 
 /*
  A point (metres) or a direction in 3D.
@@ -298,8 +274,6 @@ typedef struct FlatrayPath {
    */
   double transmittance;
 } FlatrayPath;
-
-
 
 
 

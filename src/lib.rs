@@ -109,6 +109,10 @@ mod math;
 pub mod media;
 pub mod path;
 pub mod stack;
+/// The C header generator skips this module (the line below tells it so); the C
+/// ABI reaches it only through `capi`.
+///
+/// cbindgen:ignore
 pub mod survey;
 pub mod vector;
 
