@@ -23,7 +23,7 @@
 //! * [`batch`]: every per-point function over slices, with a status per point
 //!   (on every core for large batches with the `parallel` feature).
 //! * [`survey`]: through-water survey corrections: refracted-ray
-//!   [`triangulate`], multi-view correction of point clouds
+//!   [`triangulate()`], multi-view correction of point clouds
 //!   ([`correct_multiview`]), laser range correction ([`correct_range`]),
 //!   depth tables and error budgets.
 //! * [`refract`], [`fresnel`], [`critical_angle`]: one interface.
