@@ -876,6 +876,303 @@ const char *flatray_version(void);
  */
 const char *flatray_status_message(int32_t status);
 
+/*
+ The true point seen along `count` lines of sight (refracted-ray
+ triangulation).
+
+ `lines_of_sight[i]`: origin = camera centre (observer's side), direction
+ toward the object in the observer's medium (any non-zero length). Each is
+ traced through the stack and the refracted rays are intersected by least
+ squares. `out_rms_miss` (optional): √(mean over the rays of the squared
+ perpendicular distance from the point to each full refracted line), metres.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `stack` or `out_point` NULL, or
+   `lines_of_sight` NULL with `count` > 0.
+ * `FLATRAY_ERR_DEGENERATE`: `count` < 2, or the refracted rays are (nearly)
+   parallel.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: invalid stack, non-finite origin, zero or
+   non-finite direction.
+ * `FLATRAY_ERR_WRONG_SIDE`: a camera past the first interface (under water),
+   or the rays meet before the last interface.
+ * `FLATRAY_ERR_MISSES_INTERFACE`, `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`,
+   `FLATRAY_ERR_OUT_OF_RANGE`: as `flatray_trace`.
+
+ # Safety
+ `stack`: NULL or valid; `lines_of_sight`: NULL (only with `count` 0) or
+ valid for `count` rays; `out_point`: NULL or writable; `out_rms_miss`: NULL
+ (not wanted) or writable.
+ */
+FlatrayStatus flatray_triangulate(const FlatrayStack *stack,
+                                       const FlatrayRay *lines_of_sight,
+                                       size_t count,
+                                       FlatrayVec3 *out_point,
+                                       double *out_rms_miss);
+
+/*
+ The true point whose exact lines of sight from the `count` camera centres
+ `observers`, triangulated as straight lines by least squares (equal weights,
+ perpendicular distances), give the uncorrected point `apparent`. Solved by
+ Newton's method (started from `flatray_correct_multiview_shortcut`) to about
+ 1e-13 of the camera-to-point distance.
+
+ `out_rms_miss` (optional): the straight-line RMS miss of the solution, the
+ RMS perpendicular distance from `apparent` to the exact straight lines of
+ sight from the cameras to the true point, metres.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `stack` or `out_true` NULL, or `observers`
+   NULL with `count` > 0.
+ * `FLATRAY_ERR_DEGENERATE`: `count` < 2, or (nearly) parallel lines of sight.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: invalid stack, a non-finite point.
+ * `FLATRAY_ERR_WRONG_SIDE`: a camera past the first interface (under water),
+   `apparent` on the observer's side (above the surface), or no true point in
+   the object's medium fits.
+ * `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`, `FLATRAY_ERR_OUT_OF_RANGE`,
+   `FLATRAY_ERR_NOT_CONVERGED`.
+
+ # Safety
+ `stack`: NULL or valid; `observers`: NULL (only with `count` 0) or valid for
+ `count` points; `out_true`: NULL or writable; `out_rms_miss`: NULL or
+ writable.
+ */
+FlatrayStatus flatray_correct_multiview(const FlatrayStack *stack,
+                                             const FlatrayVec3 *observers,
+                                             size_t count,
+                                             FlatrayVec3 apparent,
+                                             FlatrayVec3 *out_true,
+                                             double *out_rms_miss);
+
+/*
+ An approximation, for comparison: each camera's straight line to
+ `apparent` is traced through the stack and the refracted rays are
+ intersected by least squares; `out_rms_miss` is their RMS miss. Exact only
+ when the cameras stand symmetrically about the point.
+
+ # Returns
+ As `flatray_correct_multiview`, without `FLATRAY_ERR_NOT_CONVERGED`.
+
+ # Safety
+ As `flatray_correct_multiview`.
+ */
+FlatrayStatus flatray_correct_multiview_shortcut(const FlatrayStack *stack,
+                                                      const FlatrayVec3 *observers,
+                                                      size_t count,
+                                                      FlatrayVec3 apparent,
+                                                      FlatrayVec3 *out_true,
+                                                      double *out_rms_miss);
+
+/*
+ The true point of a laser range from `sensor` reported as `uncorrected`
+ (straight beam at the observer medium's group velocity): the beam refracted
+ at every interface, the travel time rescaled in each medium by its group
+ index. A point whose beam ends before the first interface comes back
+ unchanged; one whose beam ends inside a layer lies in that layer.
+
+ `group_index`: `group_count` = layer_count + 2 values (observer, layers...,
+ object), or NULL with 0 to use the phase indices.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `stack` or `out_true` NULL, `group_index`
+   NULL with `group_count` > 0.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: invalid stack, a non-finite point, a
+   `group_count` other than 0 or layer_count + 2, a group index not finite
+   and > 0.
+ * `FLATRAY_ERR_WRONG_SIDE`: the sensor past the first interface.
+ * `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`, `FLATRAY_ERR_OUT_OF_RANGE`.
+
+ # Safety
+ `stack`: NULL or valid; `group_index`: NULL (only with `group_count` 0) or
+ valid for `group_count` doubles; `out_true`: NULL or writable.
+ */
+FlatrayStatus flatray_correct_range(const FlatrayStack *stack,
+                                         FlatrayVec3 sensor,
+                                         FlatrayVec3 uncorrected,
+                                         const double *group_index,
+                                         size_t group_count,
+                                         FlatrayVec3 *out_true);
+
+/*
+ `flatray_correct_range` of `count` uncorrected points. `sensors` holds 1
+ position (shared by all) or `count`. `out_status` may be NULL.
+
+ # Returns
+ `FLATRAY_OK` when every point succeeded, else the status of the lowest-index
+ failing point. Whole-call errors (nothing written):
+ `FLATRAY_ERR_NULL_POINTER` (NULL stack, NULL array with a count above 0),
+ `FLATRAY_ERR_INVALID_ARGUMENT` (invalid stack, `sensor_count` neither 1 nor
+ `count`, a bad `group_count` or group index).
+
+ # Safety
+ `stack`: NULL or valid; each array NULL (only with a count of 0, or for the
+ optional `out_status`) or valid for its count (`out_true` and `out_status`:
+ `count`); outputs must not overlap inputs.
+ */
+FlatrayStatus flatray_correct_ranges(const FlatrayStack *stack,
+                                          const FlatrayVec3 *sensors,
+                                          size_t sensor_count,
+                                          const FlatrayVec3 *uncorrected,
+                                          size_t count,
+                                          const double *group_index,
+                                          size_t group_count,
+                                          FlatrayVec3 *out_true,
+                                          int32_t *out_status);
+
+/*
+ `flatray_correct_multiview` of `count` uncorrected points, each seen by its
+ own cameras: point `i` was seen by `cameras[view_ids[k]]` for `k` from
+ `view_offsets[i]` to `view_offsets[i + 1] - 1`. `view_offsets` holds
+ `count + 1` non-decreasing entries, the last at most `view_id_count` (NULL
+ when `count` is 0). A camera id of `camera_count` or more fails its point
+ with `FLATRAY_ERR_INVALID_ARGUMENT`. `out_rms_miss` and `out_status` may be
+ NULL.
+
+ # Returns
+ `FLATRAY_OK` when every point succeeded, else the status of the lowest-index
+ failing point. Whole-call errors (nothing written):
+ `FLATRAY_ERR_NULL_POINTER`, `FLATRAY_ERR_INVALID_ARGUMENT` (invalid stack,
+ malformed `view_offsets`).
+
+ # Safety
+ `stack`: NULL or valid; every array NULL (only with a count of 0, or for the
+ optional outputs) or valid for its count (`view_offsets`: `count + 1`;
+ outputs: `count`); outputs must not overlap inputs.
+ */
+FlatrayStatus flatray_correct_multiviews(const FlatrayStack *stack,
+                                              const FlatrayVec3 *cameras,
+                                              size_t camera_count,
+                                              const size_t *view_offsets,
+                                              const uint32_t *view_ids,
+                                              size_t view_id_count,
+                                              const FlatrayVec3 *apparent,
+                                              size_t count,
+                                              FlatrayVec3 *out_true,
+                                              double *out_rms_miss,
+                                              int32_t *out_status);
+
+/*
+ `flatray_correct_multiview_shortcut` (the approximation) of `count` points;
+ arguments as `flatray_correct_multiviews`.
+
+ # Returns
+ As `flatray_correct_multiviews`.
+
+ # Safety
+ As `flatray_correct_multiviews`.
+ */
+FlatrayStatus flatray_correct_multiviews_shortcut(const FlatrayStack *stack,
+                                                       const FlatrayVec3 *cameras,
+                                                       size_t camera_count,
+                                                       const size_t *view_offsets,
+                                                       const uint32_t *view_ids,
+                                                       size_t view_id_count,
+                                                       const FlatrayVec3 *apparent,
+                                                       size_t count,
+                                                       FlatrayVec3 *out_true,
+                                                       double *out_rms_miss,
+                                                       int32_t *out_status);
+
+/*
+ `flatray_true_depth` of `count` apparent depths, each at its own view angle
+ (single flat interface; depths in metres >= 0, angles in radians in
+ [0, π/2)). `out_status` may be NULL.
+
+ # Returns
+ `FLATRAY_OK` when every element succeeded, else the status of the
+ lowest-index failure (`FLATRAY_ERR_INVALID_ARGUMENT` for a negative or NaN
+ depth or an angle out of range, `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`).
+ Whole-call errors (nothing written): `FLATRAY_ERR_NULL_POINTER`,
+ `FLATRAY_ERR_INVALID_ARGUMENT` (an index not finite and > 0, unknown
+ `image`).
+
+ # Safety
+ Each array NULL (only with `count` 0, or for `out_status`) or valid for
+ `count` elements; outputs must not overlap inputs.
+ */
+FlatrayStatus flatray_true_depths(const double *apparent_depths,
+                                       const double *view_angles,
+                                       size_t count,
+                                       double n_observer,
+                                       double n_object,
+                                       int32_t image,
+                                       double *out_depths,
+                                       int32_t *out_status);
+
+/*
+ Correction factors `true depth / apparent depth` of one flat interface at
+ `count` view angles (radians, observer's medium): `n_object / n_observer`
+ at nadir, growing with the angle. `out_status` may be NULL.
+
+ # Returns
+ As `flatray_true_depths`.
+
+ # Safety
+ `view_angles` and `out_factors`: NULL (only with `count` 0) or valid for
+ `count` doubles; `out_status`: NULL or valid for `count` codes.
+ */
+FlatrayStatus flatray_correction_factors(const double *view_angles,
+                                              size_t count,
+                                              double n_observer,
+                                              double n_object,
+                                              int32_t image,
+                                              double *out_factors,
+                                              int32_t *out_status);
+
+/*
+ Error budget of `flatray_true_position`: partial derivatives of the true
+ point (metres) with respect to the stack's offset `d` along its normal (the
+ stack moved to origin + d n̂, n̂ the unit normal, away from the observer for
+ d > 0) (`out_d_offset`, 3 doubles), to `n_object` (`out_d_n_object`, 3), to
+ the observer position (`out_d_observer`, 9, row-major d true_i / d obs_j)
+ and to the apparent point (`out_d_apparent`, 9). Exact derivatives of the
+ closed-form inverse (forward-mode automatic differentiation).
+
+ # Returns
+ As `flatray_true_position`; `FLATRAY_ERR_NULL_POINTER` when any output is
+ NULL (the others are set to NaN).
+
+ # Safety
+ `stack`: NULL or valid; each output NULL or valid for writing its number of
+ doubles.
+ */
+FlatrayStatus flatray_true_position_sensitivity(const FlatrayStack *stack,
+                                                     FlatrayVec3 observer,
+                                                     FlatrayVec3 apparent,
+                                                     int32_t image,
+                                                     double *out_d_offset,
+                                                     double *out_d_n_object,
+                                                     double *out_d_observer,
+                                                     double *out_d_apparent);
+
+/*
+ First-order propagated covariance (row-major 3×3, m²) of the true point of
+ `flatray_true_position` from independent standard deviations: stack offset
+ (m), `n_object`, observer position (m, each axis), apparent point (m, each
+ axis). `C = Σ σ² J Jᵀ` over the inputs (law of propagation of uncertainty,
+ JCGM 100:2008 §5.1.2).
+
+ # Returns
+ As `flatray_true_position`; `FLATRAY_ERR_NULL_POINTER` for a NULL
+ `out_covariance`; `FLATRAY_ERR_INVALID_ARGUMENT` also for a standard
+ deviation not finite and >= 0.
+
+ # Safety
+ `stack`: NULL or valid; `out_covariance`: NULL or valid for writing 9
+ doubles.
+ */
+FlatrayStatus flatray_true_position_covariance(const FlatrayStack *stack,
+                                                    FlatrayVec3 observer,
+                                                    FlatrayVec3 apparent,
+                                                    int32_t image,
+                                                    double sigma_offset,
+                                                    double sigma_n_object,
+                                                    double sigma_observer,
+                                                    double sigma_apparent,
+                                                    double *out_covariance);
+
 #ifdef __cplusplus
 }  // extern "C"
 #endif  // __cplusplus

@@ -5,11 +5,17 @@
 //! the point count, an output slice too short) returns at once and writes
 //! nothing. Otherwise every element is attempted; a failing element gets its
 //! own status and NaN outputs and does not stop the rest. Nothing allocates.
+//!
+//! With the `parallel` feature (on by default) a batch of a few thousand
+//! elements or more runs on every core (see [`crate::survey::parallel`]); each
+//! element is computed by the same code, so the results are identical to a
+//! one-thread run. The survey batches ([`crate::survey`]) follow the same rules.
 
 use crate::error::{Error, Result, Status};
 use crate::image::{apparent_position, true_position, Image};
 use crate::path::trace;
 use crate::stack::Stack;
+use crate::survey::parallel::{self, fill};
 use crate::vector::{Ray, Vec3};
 
 /// Where a batch writes each element's status.
@@ -21,6 +27,25 @@ pub trait StatusSink {
     fn capacity(&self) -> Option<usize>;
     /// Record the status of element `index` (ignored past the capacity).
     fn record(&mut self, index: usize, status: Status);
+    /// The sink as plain storage a batch can split across threads. The default,
+    /// [`SinkSlots::Opaque`], makes batches run on the calling thread and call
+    /// [`StatusSink::record`] in index order.
+    fn slots(&mut self) -> SinkSlots<'_> {
+        SinkSlots::Opaque
+    }
+}
+
+/// What a [`StatusSink`] is made of, so a batch can split it across threads.
+#[derive(Debug)]
+pub enum SinkSlots<'a> {
+    /// A slice of statuses, indexed by element.
+    Statuses(&'a mut [Status]),
+    /// A slice of C status codes, indexed by element.
+    Codes(&'a mut [i32]),
+    /// Statuses are not kept.
+    Discard,
+    /// Anything else: the batch calls [`StatusSink::record`] itself.
+    Opaque,
 }
 
 impl StatusSink for [Status] {
@@ -32,6 +57,9 @@ impl StatusSink for [Status] {
         if let Some(slot) = self.get_mut(index) {
             *slot = status;
         }
+    }
+    fn slots(&mut self) -> SinkSlots<'_> {
+        SinkSlots::Statuses(self)
     }
 }
 
@@ -45,6 +73,9 @@ impl StatusSink for [i32] {
             *slot = status.code();
         }
     }
+    fn slots(&mut self) -> SinkSlots<'_> {
+        SinkSlots::Codes(self)
+    }
 }
 
 /// A [`StatusSink`] that keeps nothing (the summary still counts failures).
@@ -57,6 +88,9 @@ impl StatusSink for NoStatus {
     }
     #[inline]
     fn record(&mut self, _index: usize, _status: Status) {}
+    fn slots(&mut self) -> SinkSlots<'_> {
+        SinkSlots::Discard
+    }
 }
 
 /// Summary of a batch in which every element was attempted.
@@ -78,18 +112,28 @@ impl BatchReport {
         }
     }
 
+    /// Count a failure of element `index`.
     #[inline]
-    fn note(&mut self, index: usize, error: Error) {
+    pub(crate) fn note(&mut self, index: usize, error: Error) {
         self.failed += 1;
         if self.first_failure.is_none() {
             self.first_failure = Some((index, error));
+        }
+    }
+
+    /// The report of two consecutive pieces of a batch, `self` the earlier one.
+    #[inline]
+    pub(crate) fn merge(self, later: BatchReport) -> BatchReport {
+        BatchReport {
+            failed: self.failed + later.failed,
+            first_failure: self.first_failure.or(later.first_failure),
         }
     }
 }
 
 /// Whole-call checks shared by the batches: `outputs` slices must hold
 /// `count` elements and the sink `count` statuses.
-fn check_lengths<S: StatusSink + ?Sized>(
+pub(crate) fn check_lengths<S: StatusSink + ?Sized>(
     count: usize,
     outputs: &[usize],
     status: &S,
@@ -103,7 +147,7 @@ fn check_lengths<S: StatusSink + ?Sized>(
 }
 
 /// The observer of element `i`: one shared observer or one per point.
-fn check_observers(observers: &[Vec3], count: usize) -> Result<()> {
+pub(crate) fn check_observers(observers: &[Vec3], count: usize) -> Result<()> {
     if observers.len() == 1 || observers.len() == count {
         Ok(())
     } else {
@@ -114,13 +158,14 @@ fn check_observers(observers: &[Vec3], count: usize) -> Result<()> {
 }
 
 #[inline]
-fn observer_of(observers: &[Vec3], i: usize) -> Vec3 {
+pub(crate) fn observer_of(observers: &[Vec3], i: usize) -> Vec3 {
     let j = if observers.len() == 1 { 0 } else { i };
     observers.get(j).copied().unwrap_or(Vec3::NAN)
 }
 
-/// Run `each` over the points, writing results and statuses.
-fn run_points<S, F>(
+/// Run `each(observer, point)` over the points, writing results and
+/// statuses (on every core for large batches).
+pub(crate) fn run_points<S, F>(
     observers: &[Vec3],
     points: &[Vec3],
     out: &mut [Vec3],
@@ -129,25 +174,23 @@ fn run_points<S, F>(
 ) -> Result<BatchReport>
 where
     S: StatusSink + ?Sized,
-    F: Fn(Vec3, Vec3) -> Result<Vec3>,
+    F: Fn(Vec3, Vec3) -> Result<Vec3> + Sync,
 {
     check_observers(observers, points.len())?;
     check_lengths(points.len(), &[out.len()], status)?;
-    let mut report = BatchReport::default();
-    for (i, (&p, slot)) in points.iter().zip(out.iter_mut()).enumerate() {
-        match each(observer_of(observers, i), p) {
-            Ok(v) => {
-                *slot = v;
-                status.record(i, Status::Ok);
-            }
-            Err(e) => {
-                *slot = Vec3::NAN;
-                status.record(i, e.status());
-                report.note(i, e);
-            }
-        }
-    }
-    Ok(report)
+    let n = points.len();
+    let out = out.get_mut(..n).unwrap_or(&mut []);
+    Ok(parallel::run(
+        n,
+        (points, out),
+        status,
+        |offset, (points, out), sink| {
+            fill(offset, out, Vec3::NAN, sink, |i| {
+                let p = points.get(i).copied().unwrap_or(Vec3::NAN);
+                each(observer_of(observers, offset + i), p)
+            })
+        },
+    ))
 }
 
 /// [`true_position`] of every apparent point.
@@ -220,23 +263,35 @@ pub fn trace_rays<S: StatusSink + ?Sized>(
 ) -> Result<BatchReport> {
     let t_len = transmittance.as_deref().map_or(usize::MAX, <[f64]>::len);
     check_lengths(rays.len(), &[out.len(), t_len], status)?;
-    let mut report = BatchReport::default();
-    for (i, (&ray, slot)) in rays.iter().zip(out.iter_mut()).enumerate() {
-        let (value, t) = match trace(stack, ray) {
-            Ok(traced) => {
-                status.record(i, Status::Ok);
-                (traced.ray, traced.transmittance)
+    let n = rays.len();
+    let out = out.get_mut(..n).unwrap_or(&mut []);
+    let transmittance = transmittance
+        .take()
+        .map(|t| t.get_mut(..n).unwrap_or(&mut []));
+    Ok(parallel::run(
+        n,
+        (rays, out, transmittance),
+        status,
+        |offset, (rays, out, mut transmittance), sink| {
+            let mut report = BatchReport::default();
+            for (i, (&ray, slot)) in rays.iter().zip(out.iter_mut()).enumerate() {
+                let (value, t) = match trace(stack, ray) {
+                    Ok(traced) => {
+                        sink.record(i, Status::Ok);
+                        (traced.ray, traced.transmittance)
+                    }
+                    Err(e) => {
+                        sink.record(i, e.status());
+                        report.note(offset + i, e);
+                        (Ray::NAN, f64::NAN)
+                    }
+                };
+                *slot = value;
+                if let Some(t_slot) = transmittance.as_deref_mut().and_then(|t| t.get_mut(i)) {
+                    *t_slot = t;
+                }
             }
-            Err(e) => {
-                status.record(i, e.status());
-                report.note(i, e);
-                (Ray::NAN, f64::NAN)
-            }
-        };
-        *slot = value;
-        if let Some(t_slot) = transmittance.as_deref_mut().and_then(|t| t.get_mut(i)) {
-            *t_slot = t;
-        }
-    }
-    Ok(report)
+            report
+        },
+    ))
 }

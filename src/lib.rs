@@ -20,7 +20,12 @@
 //! * [`apparent_position`] / [`true_position`]: where an object appears (the
 //!   sagittal or tangential [`Image`]) and, inversely, where it really is.
 //! * [`apparent_depth`] / [`true_depth`]: the same for one interface, as scalars.
-//! * [`batch`]: every per-point function over slices, with a status per point.
+//! * [`batch`]: every per-point function over slices, with a status per point
+//!   (on every core for large batches with the `parallel` feature).
+//! * [`survey`]: through-water survey corrections: refracted-ray
+//!   [`triangulate()`], multi-view correction of point clouds
+//!   ([`correct_multiview`]), laser range correction ([`correct_range`]),
+//!   depth tables and error budgets.
 //! * [`refract`], [`fresnel`], [`critical_angle`]: one interface.
 //! * [`capi`]: the C ABI (`include/flatray.h`).
 //!
@@ -55,6 +60,11 @@
 //! * `panic-handler`: a minimal `#[panic_handler]` for `no_std` static
 //!   libraries linked from C firmware (never reached: the library is
 //!   panic-free by construction).
+//! * `parallel` (default, needs `std`): large batches run on every core
+//!   (rayon; `RAYON_NUM_THREADS` sets the thread count). Results are identical
+//!   with and without it.
+//! * `cli` (default): the `flatray-correct` command-line tool (clap, csv,
+//!   indicatif); the library never uses these crates.
 #![no_std]
 #![deny(missing_docs)]
 #![deny(unsafe_op_in_unsafe_fn)]
@@ -99,6 +109,11 @@ mod math;
 pub mod media;
 pub mod path;
 pub mod stack;
+/// The C header generator skips this module (the line below tells it so); the C
+/// ABI reaches it only through `capi`.
+///
+/// cbindgen:ignore
+pub mod survey;
 pub mod vector;
 
 /// The README's Rust examples run as doc tests.
@@ -106,7 +121,7 @@ pub mod vector;
 #[doc = include_str!("../README.md")]
 mod readme_examples {}
 
-pub use batch::{BatchReport, NoStatus, StatusSink};
+pub use batch::{BatchReport, NoStatus, SinkSlots, StatusSink};
 pub use error::{Error, Result, Status};
 pub use image::{apparent_depth, apparent_position, true_depth, true_position, Image};
 pub use interface::{critical_angle, fresnel, refract, Fresnel};
@@ -116,4 +131,8 @@ pub use media::{
 };
 pub use path::{line_of_sight, line_of_sight_with, trace, Path, SolveOptions, Traced};
 pub use stack::{Layer, Region, Stack, MAX_LAYERS};
+pub use survey::{
+    correct_multiview, correct_multiview_shortcut, correct_range, triangulate, GroupIndices,
+    Sensitivity, Uncertainty,
+};
 pub use vector::{Ray, Vec3};

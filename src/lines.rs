@@ -50,21 +50,56 @@ pub const PARALLEL_PIVOT: f64 = 1e-12;
 /// # Ok::<(), flatray::Error>(())
 /// ```
 pub fn intersect(lines: &[Ray]) -> Result<LinesPoint> {
-    if lines.len() < 2 {
+    intersect_with(lines.len(), |i| {
+        lines
+            .get(i)
+            .copied()
+            .ok_or(Error::InvalidArgument("line index out of range"))
+    })
+}
+
+/// [`intersect`] over `count` lines produced on demand by `line(i)`,
+/// `i = 0..count`, so callers that compute their lines (refracted rays, views
+/// chosen by index) need no buffer. `line` is called twice per line (once for
+/// the normal equations, once for the miss distances) and must return the same
+/// line both times; its first error is returned.
+///
+/// # Errors
+/// As [`intersect`], plus any error of `line`.
+pub fn intersect_with<F>(count: usize, line: F) -> Result<LinesPoint>
+where
+    F: Fn(usize) -> Result<Ray>,
+{
+    let point = point_with(count, &line)?;
+    let rms_miss = rms_miss_with(point, count, &line)?;
+    Ok(LinesPoint { point, rms_miss })
+}
+
+/// The least-squares point of [`intersect_with`] without the miss distances:
+/// `line` is called once per line. For iterative solvers that need only the point.
+///
+/// # Errors
+/// As [`intersect_with`].
+pub fn point_with<F>(count: usize, line: F) -> Result<Vec3>
+where
+    F: Fn(usize) -> Result<Ray>,
+{
+    if count < 2 {
         return Err(Error::Degenerate("at least two lines are needed"));
     }
     // Work relative to the first origin so large coordinates do not cost digits.
-    let base = lines
-        .first()
-        .map(|l| l.origin)
-        .unwrap_or(Vec3::ZERO)
-        .finite("line origin must be finite")?;
+    let mut base = Vec3::ZERO;
     // Symmetric A as (xx, xy, xz, yy, yz, zz).
     let mut a = [0.0f64; 6];
     let mut b = Vec3::ZERO;
-    for line in lines {
-        let o = line.origin.finite("line origin must be finite")? - base;
-        let d = line
+    for i in 0..count {
+        let l = line(i)?;
+        let origin = l.origin.finite("line origin must be finite")?;
+        if i == 0 {
+            base = origin;
+        }
+        let o = origin - base;
+        let d = l
             .direction
             .direction("line direction must be finite and non-zero")?;
         let m = [
@@ -84,7 +119,7 @@ pub fn intersect(lines: &[Ray]) -> Result<LinesPoint> {
             m[2] * o.x + m[4] * o.y + m[5] * o.z,
         );
     }
-    let threshold = PARALLEL_PIVOT * lines.len() as f64;
+    let threshold = PARALLEL_PIVOT * count as f64;
     let p = solve_spd(a, b, threshold)
         .ok_or(Error::Degenerate("the lines are parallel or nearly so"))?;
     let point = base + p;
@@ -93,19 +128,34 @@ pub fn intersect(lines: &[Ray]) -> Result<LinesPoint> {
             "the intersection is too far to represent",
         ));
     }
+    Ok(point)
+}
+
+/// `√(mean of the squared perpendicular distances)` from `point` to `count`
+/// lines produced by `line(i)`: the quality figure of [`intersect`] for any
+/// point, e.g. a given apparent point.
+///
+/// # Errors
+/// [`Error::Degenerate`] for no lines; [`Error::InvalidArgument`] for a zero or
+/// non-finite direction; any error of `line`.
+pub fn rms_miss_with<F>(point: Vec3, count: usize, line: F) -> Result<f64>
+where
+    F: Fn(usize) -> Result<Ray>,
+{
+    if count == 0 {
+        return Err(Error::Degenerate("at least one line is needed"));
+    }
     let mut sum = 0.0;
-    for line in lines {
-        let d = line
+    for i in 0..count {
+        let l = line(i)?;
+        let d = l
             .direction
             .direction("line direction must be finite and non-zero")?;
-        let v = point - line.origin;
+        let v = point - l.origin;
         let perp = v - d * v.dot(d);
         sum += perp.dot(perp);
     }
-    Ok(LinesPoint {
-        point,
-        rms_miss: math::sqrt(sum / lines.len() as f64),
-    })
+    Ok(math::sqrt(sum / count as f64))
 }
 
 /// `pivot > min`, false for NaN.

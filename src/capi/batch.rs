@@ -13,7 +13,7 @@ use crate::batch::{self, BatchReport, NoStatus, StatusSink};
 use crate::vector::{Ray, Vec3};
 use crate::{Image, Stack};
 
-fn finish(report: crate::Result<BatchReport>) -> Result<(), FlatrayStatus> {
+pub(crate) fn finish(report: crate::Result<BatchReport>) -> Result<(), FlatrayStatus> {
     let report = report.map_err(FlatrayStatus::from)?;
     match FlatrayStatus::from(report.status()) {
         FlatrayStatus::FLATRAY_OK => Ok(()),

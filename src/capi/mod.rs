@@ -24,12 +24,14 @@ mod batch;
 mod geometry;
 mod media;
 mod status;
+mod survey;
 mod types;
 
 pub use batch::*;
 pub use geometry::*;
 pub use media::*;
 pub use status::*;
+pub use survey::*;
 pub use types::*;
 
 use crate::error::Error;

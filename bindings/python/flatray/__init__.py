@@ -92,6 +92,24 @@ from .media import (
     seawater,
     sellmeier,
 )
+from .survey import (
+    CLEAR_WATER_NADIR_FACTOR,
+    MultiviewBatch,
+    Sensitivity,
+    SurveyPoint,
+    ValueBatch,
+    correct_multiview,
+    correct_multiview_shortcut,
+    correct_multiviews,
+    correct_range,
+    correct_ranges,
+    correction_factors,
+    correction_factors_deg,
+    triangulate,
+    true_depths,
+    true_position_covariance,
+    true_position_sensitivity,
+)
 
 
 def library_version() -> str:
@@ -123,4 +141,8 @@ __all__ = [
     "Medium", "Air", "PureWater", "Seawater", "Sellmeier", "Cauchy", "FixedIndex",
     "air", "pure_water", "seawater", "sellmeier", "cauchy", "fixed_index", "as_medium",
     "StackBuilder", "build_stack",
+    "CLEAR_WATER_NADIR_FACTOR", "SurveyPoint", "MultiviewBatch", "ValueBatch", "Sensitivity",
+    "triangulate", "correct_multiview", "correct_multiview_shortcut", "correct_multiviews",
+    "correct_range", "correct_ranges", "true_depths", "correction_factors",
+    "correction_factors_deg", "true_position_sensitivity", "true_position_covariance",
 ]

@@ -124,6 +124,60 @@ PROTOTYPES: dict[str, tuple[object, list[object]]] = {
         [ctypes.c_double, ctypes.c_double, ctypes.c_double, ctypes.c_int32, ctypes.c_double,
          ctypes.c_double, ctypes.c_double, _P(ctypes.c_double), _P(ctypes.c_double)],
     ),
+    # Survey functions (triangulation, multi-view and range corrections, depth
+    # tables, error budget).
+    "flatray_triangulate": (
+        _STATUS, [_STACK_P, _P(FlatrayRay), ctypes.c_size_t, _P(_VEC), _P(ctypes.c_double)],
+    ),
+    "flatray_correct_multiview": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _VEC, _P(_VEC), _P(ctypes.c_double)],
+    ),
+    "flatray_correct_multiview_shortcut": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _VEC, _P(_VEC), _P(ctypes.c_double)],
+    ),
+    "flatray_correct_range": (
+        _STATUS,
+        [_STACK_P, _VEC, _VEC, _P(ctypes.c_double), ctypes.c_size_t, _P(_VEC)],
+    ),
+    "flatray_correct_ranges": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _P(_VEC), ctypes.c_size_t, _P(ctypes.c_double),
+         ctypes.c_size_t, _P(_VEC), _P(ctypes.c_int32)],
+    ),
+    "flatray_correct_multiviews": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _P(ctypes.c_size_t), _P(ctypes.c_uint32),
+         ctypes.c_size_t, _P(_VEC), ctypes.c_size_t, _P(_VEC), _P(ctypes.c_double),
+         _P(ctypes.c_int32)],
+    ),
+    "flatray_correct_multiviews_shortcut": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _P(ctypes.c_size_t), _P(ctypes.c_uint32),
+         ctypes.c_size_t, _P(_VEC), ctypes.c_size_t, _P(_VEC), _P(ctypes.c_double),
+         _P(ctypes.c_int32)],
+    ),
+    "flatray_true_depths": (
+        _STATUS,
+        [_P(ctypes.c_double), _P(ctypes.c_double), ctypes.c_size_t, ctypes.c_double,
+         ctypes.c_double, ctypes.c_int32, _P(ctypes.c_double), _P(ctypes.c_int32)],
+    ),
+    "flatray_correction_factors": (
+        _STATUS,
+        [_P(ctypes.c_double), ctypes.c_size_t, ctypes.c_double, ctypes.c_double,
+         ctypes.c_int32, _P(ctypes.c_double), _P(ctypes.c_int32)],
+    ),
+    "flatray_true_position_sensitivity": (
+        _STATUS,
+        [_STACK_P, _VEC, _VEC, ctypes.c_int32, _P(ctypes.c_double), _P(ctypes.c_double),
+         _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
+    "flatray_true_position_covariance": (
+        _STATUS,
+        [_STACK_P, _VEC, _VEC, ctypes.c_int32, ctypes.c_double, ctypes.c_double,
+         ctypes.c_double, ctypes.c_double, _P(ctypes.c_double)],
+    ),
     "flatray_version": (ctypes.c_char_p, []),
     "flatray_status_message": (ctypes.c_char_p, [ctypes.c_int32]),
 }
