@@ -5,6 +5,8 @@
 # Usage: scripts/fuzz.sh [SECONDS_PER_TARGET] [TARGET...]
 #   scripts/fuzz.sh              # every target, 30 s each
 #   scripts/fuzz.sh 600 stack    # the stack target for 10 minutes
+#   FLATRAY_FUZZ_RUNS=100000 scripts/fuzz.sh   # a fixed number of inputs from a
+#                                # fixed seed instead (repeatable: the test command)
 #
 # Installs cargo-fuzz from crates.io when it is missing. cargo-fuzz passes
 # nightly-only sanitizer flags; RUSTC_BOOTSTRAP=1 lets the stable toolchain
@@ -29,13 +31,21 @@ fi
 for t in "${targets[@]}"; do
   mkdir -p "fuzz/corpus/$t"
   log="$(mktemp)"
-  if ! cargo fuzz run -O "$t" "fuzz/corpus/$t" -- -max_total_time="$seconds" -max_len=512 \
+  if [ -n "${FLATRAY_FUZZ_RUNS:-}" ]; then
+    limit=(-runs="$FLATRAY_FUZZ_RUNS" -seed=1)
+    what="from seed 1"
+  else
+    limit=(-max_total_time="$seconds")
+    what="in ${seconds} s"
+  fi
+  if ! cargo fuzz run -O "$t" "fuzz/corpus/$t" -- "${limit[@]}" -max_len=512 \
       -print_final_stats=1 >"$log" 2>&1; then
-    tail -40 "$log"
+    grep -E -A3 "panicked|ERROR" "$log" | head -20
+    grep -E -A1 "Failing input|Reproduce with" "$log" || tail -20 "$log"
     echo "fuzz target $t found a problem (see above)" >&2
     exit 1
   fi
   runs=$(grep -o 'stat::number_of_executed_units: *[0-9]*' "$log" | grep -o '[0-9]*$' || echo "?")
-  echo "fuzz target $t: $runs inputs in ${seconds} s, no finding"
+  echo "fuzz target $t: $runs inputs $what, no finding"
   rm -f "$log"
 done

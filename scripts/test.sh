@@ -43,8 +43,8 @@ cargo build --release --lib
 step "C: example and test program"
 bash bindings/c/run.sh "$root/target/release"
 
-step "Fuzzing: a short run of every C ABI fuzz target (scripts/fuzz.sh SECONDS for longer)"
-bash scripts/fuzz.sh "${FLATRAY_FUZZ_SECONDS:-15}"
+step "Fuzzing: a short, repeatable run of every C ABI fuzz target (scripts/fuzz.sh SECONDS for longer)"
+FLATRAY_FUZZ_RUNS="${FLATRAY_FUZZ_RUNS:-150000}" bash scripts/fuzz.sh
 
 step "Python: binding and pytest suite"
 if [ ! -x .venv/bin/python ]; then

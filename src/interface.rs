@@ -209,12 +209,20 @@ impl Fresnel {
     /// both scaled by `n_i η = n_t`): `Rp = ((x − y)/(x + y))²`, `Tp = 4xy/(x + y)²`.
     ///
     /// Evaluated as `Ts = 4 (a s)(b s)` with `s = 1/(a + b)`, so each factor is in
-    /// `[0, 1]`: no overflow for the magnitudes flatray admits (`η` within
-    /// [`MAX_INDEX_RATIO`], projections below `η`), `T ≤ 1` without clamping,
+    /// `[0, 1]`: no overflow (`η` is within [`MAX_INDEX_RATIO`] and the
+    /// projections are first scaled near 1 when they are not), `T` clamped to 1 against rounding,
     /// and both `T` and `R` keep their relative accuracy at grazing incidence.
     /// Requires `a, b >= 0`, not both 0.
     #[inline]
     pub(crate) fn from_projections(eta: f64, a: f64, b: f64) -> Fresnel {
+        // Projections from a grazing line-of-sight solve can be huge; bring them
+        // near 1 first so that η² a cannot overflow (a fuzz finding).
+        let m = a.max(b);
+        let (a, b) = if (1e-100..=1e100).contains(&m) {
+            (a, b)
+        } else {
+            (a / m, b / m)
+        };
         let (rs, ts) = reflect_transmit(a, b);
         let (rp, tp) = reflect_transmit(eta * eta * a, b);
         Fresnel {
@@ -236,7 +244,9 @@ fn reflect_transmit(u: f64, v: f64) -> (f64, f64) {
     let s = 1.0 / (u + v);
     let (us, vs) = (u * s, v * s);
     let diff = us - vs;
-    (diff * diff, 4.0 * us * vs)
+    // 4 (us)(vs) ≤ 1 in exact arithmetic; the rounding of us and vs can push it
+    // an ulp above 1 when u ≈ v (a fuzz finding), so clamp.
+    (diff * diff, (4.0 * us * vs).min(1.0))
 }
 
 /// Fresnel power coefficients for light meeting a flat interface from a medium

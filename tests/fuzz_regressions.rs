@@ -171,3 +171,52 @@ fn traced_rays_stay_on_the_last_interface_through_a_much_thinner_layer() {
     let off = s.height(out.ray.origin) - s.total_thickness();
     assert!(off.abs() < 1e-12, "{off:e} m off the last interface");
 }
+
+/// Nearly equal indices along a solved line of sight: the rounding of the
+/// scaled projections made 4(us)(vs) exceed 1 by an ulp, and the path's
+/// transmittance was 1.0000000000000002. Transmittances are clamped to 1.
+#[test]
+fn line_of_sight_transmittance_never_exceeds_one() {
+    let stack = FlatrayStack {
+        origin: Vec3::new(59.999_425_457_973_096, 2.2, 2.499_999_999_999_999),
+        normal: Vec3::new(
+            0.049_999_999_999_999_996,
+            0.045_686_274_509_803_934,
+            0.600_888_480_392_156_8,
+        ),
+        n_observer: 2.011_764_705_882_353,
+        layer_count: 2,
+        thickness: [
+            2.011_764_705_882_353,
+            2.011_764_710_073_304_5,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+        ],
+        n_layer: [
+            2.011_764_705_882_353,
+            2.011_764_705_881_750_7,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+            0.0,
+        ],
+        n_object: 2.011_764_705_882_350_2,
+    };
+    let path = flatray::line_of_sight(
+        &stack.to_stack().unwrap(),
+        Vec3::new(2.2, 2.205_859_375, 2.011_764_705_882_353),
+        Vec3::new(
+            2.011_764_672_703_986,
+            20.784_313_725_490_19,
+            20.785_522_460_888_185,
+        ),
+    )
+    .unwrap();
+    assert!(path.transmittance <= 1.0, "{}", path.transmittance);
+}

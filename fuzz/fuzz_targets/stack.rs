@@ -55,7 +55,7 @@ fuzz_target!(|bytes: &[u8]| {
         assert!(path.entry.is_finite() && path.exit.is_finite());
         assert!(path.geometric_length.is_finite() && path.geometric_length >= 0.0);
         assert!(path.optical_length.is_finite() && path.optical_length >= 0.0);
-        assert!((0.0..=1.0).contains(&path.transmittance));
+        assert!((0.0..=1.0).contains(&path.transmittance), "path transmittance: stack {c_stack:?} observer {observer:?} object {object:?} path {path:?}");
         assert!(
             stack.height(path.entry).abs() <= on_plane_tol(path.entry, &[observer, object]),
             "entry {:e} m off the first interface: stack {c_stack:?} observer {observer:?} object {object:?} path {path:?}",
