@@ -1142,10 +1142,10 @@ FlatrayStatus flatray_true_position_sensitivity(const FlatrayStack *stack,
                                                      FlatrayVec3 observer,
                                                      FlatrayVec3 apparent,
                                                      int32_t image,
-                                                     double *out_d_offset,
-                                                     double *out_d_n_object,
-                                                     double *out_d_observer,
-                                                     double *out_d_apparent);
+                                                     double out_d_offset[3],
+                                                     double out_d_n_object[3],
+                                                     double out_d_observer[9],
+                                                     double out_d_apparent[9]);
 
 /*
  First-order propagated covariance (row-major 3×3, m²) of the true point of
@@ -1171,7 +1171,7 @@ FlatrayStatus flatray_true_position_covariance(const FlatrayStack *stack,
                                                     double sigma_n_object,
                                                     double sigma_observer,
                                                     double sigma_apparent,
-                                                    double *out_covariance);
+                                                    double out_covariance[9]);
 
 #ifdef __cplusplus
 }  // extern "C"

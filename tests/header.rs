@@ -28,15 +28,28 @@ fn generate() -> String {
     coefficient_arrays(&plain_type_names(&text))
 }
 
-/// The user-formula functions take three coefficients each; the issue writes
-/// those parameters `const double b[3]` and `const double c_um2[3]`, which C
-/// reads exactly as cbindgen's `const double *b` (an array parameter is a
-/// pointer), so the spelling changes and the ABI does not. Only these two
-/// parameter names are touched; no other function has them.
+/// Fixed-length array parameters, spelled as the issues write them
+/// (`const double b[3]`, `double out_covariance[9]`, ...). C reads an array
+/// parameter exactly as cbindgen's pointer (`const double *b`), so the spelling
+/// changes and the ABI does not. Each entry names one parameter (with the
+/// separator after it) that no other function uses.
+const ARRAY_PARAMETERS: &[(&str, &str)] = &[
+    ("const double *b,", "const double b[3],"),
+    ("const double *c_um2,", "const double c_um2[3],"),
+    ("double *out_d_offset,", "double out_d_offset[3],"),
+    ("double *out_d_n_object,", "double out_d_n_object[3],"),
+    ("double *out_d_observer,", "double out_d_observer[9],"),
+    ("double *out_d_apparent)", "double out_d_apparent[9])"),
+    ("double *out_covariance)", "double out_covariance[9])"),
+    ("const double *b_to_a,", "const double b_to_a[12],"),
+];
+
 fn coefficient_arrays(header: &str) -> String {
-    header
-        .replace("const double *b,", "const double b[3],")
-        .replace("const double *c_um2,", "const double c_um2[3],")
+    ARRAY_PARAMETERS
+        .iter()
+        .fold(header.to_string(), |text, (pointer, array)| {
+            text.replace(pointer, array)
+        })
 }
 
 /// cbindgen's `style = "both"` writes tagged typedefs (`typedef struct
