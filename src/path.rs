@@ -224,6 +224,7 @@ impl Solved {
 }
 
 /// Solve the line of sight from `observer` to `object` (Fermat's principle).
+#[inline]
 pub(crate) fn solve(
     stack: &Stack,
     observer: Vec3,
@@ -318,9 +319,9 @@ pub(crate) fn solve(
         let u2 = u * u;
         for ((&nu_k, &h_k), &b_k) in nu.iter().zip(h.iter()).zip(b.iter()).take(count) {
             let a_k = nu_k * nu_k;
-            let d_k = math::sqrt(a_k + b_k * u2);
-            f += h_k / d_k;
-            df += h_k * a_k / (d_k * d_k * d_k);
+            let inv = 1.0 / math::sqrt(a_k + b_k * u2);
+            f += h_k * inv;
+            df += h_k * a_k * inv * inv * inv;
         }
         let residual = target - u * f;
         if residual <= tolerance {
@@ -412,6 +413,18 @@ pub fn line_of_sight_with(
     path_from(stack, &s)
 }
 
+/// `1/cos θ = √(1 + tan² θ)` for `tan θ >= 0`, without the cost of a general
+/// `hypot`: the square cannot overflow below 1e150, and above it `√(1 + t²)`
+/// rounds to `t`.
+#[inline]
+fn sec_from_tan(t: f64) -> f64 {
+    if t < 1e150 {
+        math::sqrt(1.0 + t * t)
+    } else {
+        t
+    }
+}
+
 /// Assemble the [`Path`] of a solved line of sight.
 pub(crate) fn path_from(stack: &Stack, s: &Solved) -> Result<Path> {
     let normal = stack.normal();
@@ -433,7 +446,7 @@ pub(crate) fn path_from(stack: &Stack, s: &Solved) -> Result<Path> {
             .enumerate()
     {
         // Segment length h_k / cos θ_k with 1/cos θ_k = √(u² + D_k²) / D_k.
-        let seg = h_k * math::hypot(u / d_k, 1.0);
+        let seg = h_k * sec_from_tan(u / d_k);
         geometric += seg;
         optical += n_k * seg;
         if let Some((n_prev, d_prev)) = prev {
