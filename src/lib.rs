@@ -27,6 +27,8 @@
 //!   ([`correct_multiview`]), laser range correction ([`correct_range`]),
 //!   depth tables and error budgets.
 //! * [`refract`], [`fresnel`], [`critical_angle`]: one interface.
+//! * [`camera`]: a lens behind a flat port (pixel ↔ ray, remap tables, field
+//!   of view, stereo).
 //! * [`capi`]: the C ABI (`include/flatray.h`).
 //!
 //! # Units and conventions
@@ -95,6 +97,7 @@ compile_error!(
 );
 
 pub mod batch;
+pub mod camera;
 pub mod capi;
 pub mod error;
 pub mod image;
