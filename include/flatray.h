@@ -209,6 +209,102 @@ typedef struct FlatrayRay {
 } FlatrayRay;
 
 /*
+ Pinhole intrinsics and Brown–Conrady distortion of a lens in air
+ (`FlatrayLens` in C).
+
+ Normalised coordinates `(x, y) = (X/Z, Y/Z)` of a direction in the camera
+ frame (x right, y down, z forward) are distorted, with `r² = x² + y²`, to
+ `x_d = x (1 + k1 r² + k2 r⁴ + k3 r⁶) + 2 p1 x y + p2 (r² + 2 x²)`,
+ `y_d = y (1 + k1 r² + k2 r⁴ + k3 r⁶) + p1 (r² + 2 y²) + 2 p2 x y`
+ (Brown 1966, Conrady 1919), and the pixel is `(fx x_d + cx, fy y_d + cy)`.
+ Units: `fx`, `fy`, `cx`, `cy` in pixels; the distortion coefficients are
+ unitless. `fx` and `fy` must be finite and > 0, every other field finite.
+ The model is used only where it is one-to-one (see `flatray::camera::lens`).
+ */
+typedef struct FlatrayLens {
+  /*
+   Focal length along x, pixels, > 0.
+   */
+  double fx;
+  /*
+   Focal length along y, pixels, > 0.
+   */
+  double fy;
+  /*
+   Principal point, x, pixels.
+   */
+  double cx;
+  /*
+   Principal point, y, pixels.
+   */
+  double cy;
+  /*
+   Radial distortion, r² term.
+   */
+  double k1;
+  /*
+   Radial distortion, r⁴ term.
+   */
+  double k2;
+  /*
+   Radial distortion, r⁶ term.
+   */
+  double k3;
+  /*
+   Tangential (decentring) distortion, first term.
+   */
+  double p1;
+  /*
+   Tangential (decentring) distortion, second term.
+   */
+  double p2;
+} FlatrayLens;
+
+/*
+ What a flat-port camera sees (`flatray_camera_view`). Angles in radians,
+ focal lengths and radius in pixels.
+ */
+typedef struct FlatrayCameraView {
+  /*
+   Horizontal angle of view in the object's medium (the water).
+   */
+  double horizontal;
+  /*
+   Vertical angle of view in the object's medium.
+   */
+  double vertical;
+  /*
+   Diagonal angle of view (outer corners) in the object's medium.
+   */
+  double diagonal;
+  /*
+   Horizontal angle of view of the bare lens in the housing's medium (air).
+   */
+  double horizontal_air;
+  /*
+   Vertical angle of view in the housing's medium.
+   */
+  double vertical_air;
+  /*
+   Diagonal angle of view in the housing's medium.
+   */
+  double diagonal_air;
+  /*
+   Effective focal length along u in the water at the principal point.
+   */
+  double focal_x_water;
+  /*
+   Effective focal length along v in the water at the principal point.
+   */
+  double focal_y_water;
+  /*
+   Distance from the principal point to the nearest pixel whose ray would
+   need total internal reflection; -1 when no pixel's ray needs it.
+   */
+  double tir_radius_px;
+} FlatrayCameraView;
+
+/*
  Fresnel power coefficients of a dielectric interface.
 
  `rs`, `rp` are reflectances and `ts`, `tp` transmittances for s and p
@@ -277,6 +373,8 @@ typedef struct FlatrayPath {
 
 
 
+
+
 #ifdef __cplusplus
 extern "C" {
 #endif // __cplusplus
@@ -342,6 +440,250 @@ FlatrayStatus flatray_trace_rays(const FlatrayStack *stack,
                                       FlatrayRay *out_object_rays,
                                       double *out_transmittance,
                                       int32_t *out_status);
+
+/*
+ Back-projection: the ray in the object's medium (the water) of pixel
+ `(u, v)` of the real image; origin on the port's outer face, unit direction.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port` or `out_ray` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: `fx` or `fy` not finite and > 0, another
+   lens field or `u`, `v` not finite, an invalid port.
+ * `FLATRAY_ERR_WRONG_SIDE`: the centre of projection is not inside the
+   housing (before the port).
+ * `FLATRAY_ERR_NOT_CONVERGED`: the pixel lies outside the image of the region
+   where the lens distortion model is one-to-one.
+ * `FLATRAY_ERR_MISSES_INTERFACE`: the pixel's ray does not reach the port.
+ * `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`: it cannot cross the port.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: not representable.
+
+ # Safety
+ `lens`, `port`: NULL or valid; `out_ray`: NULL or writable.
+ */
+FlatrayStatus flatray_pixel_to_ray(const FlatrayLens *lens,
+                                        const FlatrayStack *port,
+                                        double u,
+                                        double v,
+                                        FlatrayRay *out_ray);
+
+/*
+ Forward projection: the pixel `(u, v)` of the real image at which `point`
+ (metres, camera frame, in the object's medium) appears.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port`, `out_u` or `out_v` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an invalid lens or port, a non-finite point.
+ * `FLATRAY_ERR_WRONG_SIDE`: the point is not past the port (inside the
+   housing or the window, or behind the camera), its line of sight leaves the
+   centre backwards, or the centre is not inside the housing.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: the direction lies outside the region where the
+   lens distortion model is one-to-one, or the pixel is not representable.
+ * `FLATRAY_ERR_TOTAL_INTERNAL_REFLECTION`, `FLATRAY_ERR_NOT_CONVERGED`: as
+   `flatray_line_of_sight`.
+
+ # Safety
+ `lens`, `port`: NULL or valid; `out_u`, `out_v`: NULL or writable.
+ */
+FlatrayStatus flatray_point_to_pixel(const FlatrayLens *lens,
+                                          const FlatrayStack *port,
+                                          FlatrayVec3 point,
+                                          double *out_u,
+                                          double *out_v);
+
+/*
+ `flatray_pixel_to_ray` of `count` pixels; `uv` holds `2*count` values
+ `u0, v0, u1, v1, ...`. `out_rays` has room for `count` rays, `out_status`
+ is NULL or has room for `count` codes.
+
+ # Returns
+ `FLATRAY_OK` when every pixel succeeded, else the status of the lowest-index
+ failing pixel (its ray is NaN, the others are computed). Whole-call errors
+ write nothing: `FLATRAY_ERR_NULL_POINTER` (NULL `lens`, `port`, or an array
+ with `count > 0`), `FLATRAY_ERR_INVALID_ARGUMENT` (invalid lens or port),
+ `FLATRAY_ERR_WRONG_SIDE` (centre of projection outside the housing).
+
+ # Safety
+ `lens`, `port`: NULL or valid; each array NULL (only with `count == 0`, or
+ for `out_status`) or valid for its length; outputs must not overlap inputs.
+ */
+FlatrayStatus flatray_pixels_to_rays(const FlatrayLens *lens,
+                                          const FlatrayStack *port,
+                                          const double *uv,
+                                          size_t count,
+                                          FlatrayRay *out_rays,
+                                          int32_t *out_status);
+
+/*
+ `flatray_point_to_pixel` of `count` points; `out_uv` receives `2*count`
+ values `u0, v0, u1, v1, ...` (NaN for a failed point). `out_status` is NULL
+ or has room for `count` codes.
+
+ # Returns
+ As `flatray_pixels_to_rays`.
+
+ # Safety
+ As `flatray_pixels_to_rays`.
+ */
+FlatrayStatus flatray_points_to_pixels(const FlatrayLens *lens,
+                                            const FlatrayStack *port,
+                                            const FlatrayVec3 *points,
+                                            size_t count,
+                                            double *out_uv,
+                                            int32_t *out_status);
+
+/*
+ Fill a remap table from the real image to the ideal pinhole camera
+ `target` in the object's medium (same centre of projection; its distortion
+ terms are ignored). For each target pixel `(i, j)`, row-major
+ (`k = j*width + i`), `map_u[k]`, `map_v[k]` receive the real-image pixel of
+ the point at range `object_distance` metres from the centre of projection
+ on that target pixel's ray, NaN where that point is not visible (inside the
+ housing, behind the camera, outside the lens model's valid region). Source
+ pixels are not clipped to any image size. Entries are the exact model's
+ pixels rounded to float.
+
+ # Returns
+ * `FLATRAY_OK` (also when no entry is visible: then every entry is NaN).
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port` or `target` is NULL, or `map_u`
+   or `map_v` is NULL with `map_len > 0`.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: `width` or `height` is 0, an invalid lens,
+   port or target (`fx`, `fy` not finite and > 0), `object_distance` not
+   finite and > 0.
+ * `FLATRAY_ERR_WRONG_SIDE`: the centre of projection is not inside the housing.
+ * `FLATRAY_ERR_BUFFER_TOO_SMALL`: `map_len < width*height` (NULL maps with
+   `map_len == 0` are empty arrays, so this too).
+
+ Nothing is written on error.
+
+ # Safety
+ `lens`, `port`, `target`: NULL or valid; `map_u`, `map_v`: NULL or valid
+ for `map_len` floats each, not overlapping.
+ */
+FlatrayStatus flatray_remap_table(const FlatrayLens *lens,
+                                       const FlatrayStack *port,
+                                       const FlatrayLens *target,
+                                       double object_distance,
+                                       uint32_t width,
+                                       uint32_t height,
+                                       float *map_u,
+                                       float *map_v,
+                                       size_t map_len);
+
+/*
+ How far a remap table built for `table_distance` misplaces points at
+ `object_distance` (metres of range from the centre of projection): for
+ every target pixel, the distance in real-image pixels between the table's
+ entry and the real pixel of the point at `object_distance` on the same
+ target ray; the maximum and the root mean square over the pixels visible at
+ both distances.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port`, `target`, `out_max_px` or
+   `out_rms_px` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: as `flatray_remap_table`, and for either
+   distance.
+ * `FLATRAY_ERR_WRONG_SIDE`: no target pixel sees a point past the port at
+   both distances, or the centre of projection is not inside the housing.
+
+ # Safety
+ `lens`, `port`, `target`: NULL or valid; `out_max_px`, `out_rms_px`: NULL
+ or writable.
+ */
+FlatrayStatus flatray_remap_error(const FlatrayLens *lens,
+                                       const FlatrayStack *port,
+                                       const FlatrayLens *target,
+                                       double table_distance,
+                                       double object_distance,
+                                       uint32_t width,
+                                       uint32_t height,
+                                       double *out_max_px,
+                                       double *out_rms_px);
+
+/*
+ Field of view in the object's medium (radians): the angle between the
+ refracted rays of the left and right image edges (`u = -0.5` and
+ `u = width - 0.5`) on the row `v = cy`, and between the top and bottom edges
+ (`v = -0.5`, `v = height - 0.5`) on the column `u = cx`.
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port`, `out_horizontal` or
+   `out_vertical` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: `width` or `height` is 0, an invalid lens
+   or port.
+ * otherwise as `flatray_pixel_to_ray` for an edge pixel.
+
+ # Safety
+ `lens`, `port`: NULL or valid; `out_horizontal`, `out_vertical`: NULL or
+ writable.
+ */
+FlatrayStatus flatray_field_of_view(const FlatrayLens *lens,
+                                         const FlatrayStack *port,
+                                         uint32_t width,
+                                         uint32_t height,
+                                         double *out_horizontal,
+                                         double *out_vertical);
+
+/*
+ Everything about what the camera sees at once: field of view (horizontal,
+ vertical, diagonal) in the water and of the bare lens in air, the in-water
+ focal lengths at the principal point, and the pixel radius where total
+ internal reflection starts (-1 when no pixel needs it).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: `lens`, `port` or `out_view` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: `width` or `height` is 0, an invalid lens
+   or port.
+ * otherwise as `flatray_pixel_to_ray` for an edge pixel or near the
+   principal point.
+
+ # Safety
+ `lens`, `port`: NULL or valid; `out_view`: NULL or writable.
+ */
+FlatrayStatus flatray_camera_view(const FlatrayLens *lens,
+                                       const FlatrayStack *port,
+                                       uint32_t width,
+                                       uint32_t height,
+                                       FlatrayCameraView *out_view);
+
+/*
+ Triangulate a point from pixel `(u_a, v_a)` of camera A and `(u_b, v_b)` of
+ camera B, each behind its own port: the least-squares intersection of the
+ two refracted rays. `b_to_a` holds 12 values, the rotation R row-major (9)
+ then the translation t (3, metres), with `x_a = R x_b + t`. Writes the point
+ in A's frame and, when `out_rms_miss` is not NULL, the root mean square
+ distance from it to the two rays (metres).
+
+ # Returns
+ * `FLATRAY_OK`
+ * `FLATRAY_ERR_NULL_POINTER`: a lens, a port, `b_to_a` or `out_point_a` is NULL.
+ * `FLATRAY_ERR_INVALID_ARGUMENT`: an invalid lens or port, a non-finite
+   pixel, an R that is not a rotation (R^T R = I within 1e-6, det R > 0) or a
+   non-finite pose.
+ * `FLATRAY_ERR_DEGENERATE`: the rays are parallel.
+ * `FLATRAY_ERR_WRONG_SIDE`: the rays come closest behind a port, or a
+   centre of projection is not inside its housing.
+ * otherwise as `flatray_pixel_to_ray` for either pixel.
+
+ # Safety
+ Lenses and ports: NULL or valid; `b_to_a`: NULL or valid for 12 doubles;
+ `out_point_a`: NULL or writable; `out_rms_miss`: NULL or writable.
+ */
+FlatrayStatus flatray_stereo_triangulate(const FlatrayLens *lens_a,
+                                              const FlatrayStack *port_a,
+                                              const FlatrayLens *lens_b,
+                                              const FlatrayStack *port_b,
+                                              const double *b_to_a,
+                                              double u_a,
+                                              double v_a,
+                                              double u_b,
+                                              double v_b,
+                                              FlatrayVec3 *out_point_a,
+                                              double *out_rms_miss);
 
 /*
  Refract `direction` at a plane with normal `normal` (Snell's law, vector form).

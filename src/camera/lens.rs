@@ -36,10 +36,14 @@ use crate::math;
 /// Pinhole intrinsics and Brown–Conrady distortion of a lens in air
 /// (`FlatrayLens` in C).
 ///
+/// Normalised coordinates `(x, y) = (X/Z, Y/Z)` of a direction in the camera
+/// frame (x right, y down, z forward) are distorted, with `r² = x² + y²`, to
+/// `x_d = x (1 + k1 r² + k2 r⁴ + k3 r⁶) + 2 p1 x y + p2 (r² + 2 x²)`,
+/// `y_d = y (1 + k1 r² + k2 r⁴ + k3 r⁶) + p1 (r² + 2 y²) + 2 p2 x y`
+/// (Brown 1966, Conrady 1919), and the pixel is `(fx x_d + cx, fy y_d + cy)`.
 /// Units: `fx`, `fy`, `cx`, `cy` in pixels; the distortion coefficients are
-/// unitless (they act on normalised coordinates). See the [module
-/// docs](self) for the model. `fx` and `fy` must be finite and `> 0`; every
-/// other field finite.
+/// unitless. `fx` and `fy` must be finite and > 0, every other field finite.
+/// The model is used only where it is one-to-one (see `flatray::camera::lens`).
 #[derive(Debug, Clone, Copy, PartialEq, Default)]
 #[repr(C)]
 pub struct Lens {

@@ -21,6 +21,7 @@
 #![allow(non_camel_case_types, clippy::missing_safety_doc)]
 
 mod batch;
+mod camera;
 mod geometry;
 mod media;
 mod status;
@@ -28,6 +29,7 @@ mod survey;
 mod types;
 
 pub use batch::*;
+pub use camera::*;
 pub use geometry::*;
 pub use media::*;
 pub use status::*;
