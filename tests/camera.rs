@@ -56,10 +56,22 @@ fn strong_lens() -> Lens {
 
 fn cameras() -> [(&'static str, PortCamera); 4] {
     [
-        ("straight port, mild lens", PortCamera::new(mild_lens(), straight_port()).unwrap()),
-        ("tilted port, mild lens", PortCamera::new(mild_lens(), tilted_port()).unwrap()),
-        ("straight port, strong lens", PortCamera::new(strong_lens(), straight_port()).unwrap()),
-        ("tilted port, strong lens", PortCamera::new(strong_lens(), tilted_port()).unwrap()),
+        (
+            "straight port, mild lens",
+            PortCamera::new(mild_lens(), straight_port()).unwrap(),
+        ),
+        (
+            "tilted port, mild lens",
+            PortCamera::new(mild_lens(), tilted_port()).unwrap(),
+        ),
+        (
+            "straight port, strong lens",
+            PortCamera::new(strong_lens(), straight_port()).unwrap(),
+        ),
+        (
+            "tilted port, strong lens",
+            PortCamera::new(strong_lens(), tilted_port()).unwrap(),
+        ),
     ]
 }
 
@@ -102,14 +114,22 @@ fn projected_pixels_back_project_through_the_point() {
     // refracted ray must pass through the point (the trace and the line of
     // sight are independent computations in the core).
     for (name, cam) in cameras() {
-        for (x, y, z) in [(0.0, 0.0, 1.0), (0.4, -0.2, 1.5), (-3.0, 1.2, 6.0), (0.03, 0.01, 0.08)] {
+        for (x, y, z) in [
+            (0.0, 0.0, 1.0),
+            (0.4, -0.2, 1.5),
+            (-3.0, 1.2, 6.0),
+            (0.03, 0.01, 0.08),
+        ] {
             let p = Vec3::new(x, y, z);
             let (u, v) = cam.point_to_pixel(p).unwrap();
             let ray = cam.pixel_to_ray(u, v).unwrap();
             let miss = distance_to_ray(p, ray.origin, ray.direction);
             // 1e-14 relative line-of-sight tolerance and the undistortion's 1e-12
             // normalised, over distances of up to ~7 m: below 1e-10 m.
-            assert!(miss < 1e-10, "{name}: {p:?} misses its own ray by {miss:e} m");
+            assert!(
+                miss < 1e-10,
+                "{name}: {p:?} misses its own ray by {miss:e} m"
+            );
         }
     }
 }
@@ -120,8 +140,13 @@ fn in_water_field_of_view_follows_snell_at_the_edges() {
     // make equal angles with the axis: each half-angle obeys
     // n_air sin(θ_air) = n_water sin(θ_water) (Snell's law; the window's index
     // drops out between parallel faces), whatever the window's thickness.
-    let lens = Lens::pinhole(1000.0, 1000.0, (f64::from(W) - 1.0) / 2.0, (f64::from(H) - 1.0) / 2.0)
-        .with_distortion(-0.05, 0.0, 0.0, 0.0, 0.0);
+    let lens = Lens::pinhole(
+        1000.0,
+        1000.0,
+        (f64::from(W) - 1.0) / 2.0,
+        (f64::from(H) - 1.0) / 2.0,
+    )
+    .with_distortion(-0.05, 0.0, 0.0, 0.0, 0.0);
     for thickness in [1e-6, 0.008, 0.05] {
         for n_air in [1.0, N_AIR] {
             let port = Stack::new(
@@ -155,7 +180,10 @@ fn in_water_field_of_view_follows_snell_at_the_edges() {
 fn magnification_along_the_axis_tends_to_the_index_ratio() {
     // Near the normal n_a θ_a = n_w θ_w, so the in-water focal length is
     // f n_w / n_a (Snell's law, small angles; common practice: about 1.33x).
-    for (_, cam) in cameras().into_iter().filter(|(n, _)| n.starts_with("straight")) {
+    for (_, cam) in cameras()
+        .into_iter()
+        .filter(|(n, _)| n.starts_with("straight"))
+    {
         let lens = *cam.lens();
         let (fxw, fyw) = cam.focal_length_in_water().unwrap();
         // Richardson-extrapolated central difference: O(1e-12) relative.
@@ -164,7 +192,8 @@ fn magnification_along_the_axis_tends_to_the_index_ratio() {
     }
     // The ratio of in-water to in-air angles off the axis tends to n_a / n_w as
     // the pixel approaches the principal point.
-    let cam = PortCamera::new(Lens::pinhole(1000.0, 1000.0, 640.0, 360.0), straight_port()).unwrap();
+    let cam =
+        PortCamera::new(Lens::pinhole(1000.0, 1000.0, 640.0, 360.0), straight_port()).unwrap();
     let axis = Vec3::new(0.0, 0.0, 1.0);
     let mut last_gap = f64::INFINITY;
     for offset in [400.0, 100.0, 25.0, 5.0, 1.0] {
@@ -201,7 +230,11 @@ fn target_for(cam: &PortCamera) -> Lens {
 }
 
 fn target_point(target: &Lens, i: f64, j: f64, distance: f64) -> Vec3 {
-    let d = Vec3::new((i - target.cx) / target.fx, (j - target.cy) / target.fy, 1.0);
+    let d = Vec3::new(
+        (i - target.cx) / target.fx,
+        (j - target.cy) / target.fy,
+        1.0,
+    );
     d * (distance / d.length())
 }
 
@@ -216,7 +249,9 @@ fn remap_table_maps_points_at_its_distance_exactly() {
             let n = (w * h) as usize;
             let mut mu = vec![0.0f32; n];
             let mut mv = vec![0.0f32; n];
-            let visible = cam.remap_table(&target, distance, w, h, &mut mu, &mut mv).unwrap();
+            let visible = cam
+                .remap_table(&target, distance, w, h, &mut mu, &mut mv)
+                .unwrap();
             let mut worst: f64 = 0.0;
             let mut counted = 0;
             for j in 0..h {
@@ -255,7 +290,10 @@ fn remap_pixel_agrees_with_point_to_pixel_in_double_precision() {
                 match (exact, fast) {
                     (Ok(a), Ok(b)) => {
                         // Both solves stop at 1e-14 relative: ~1e-10 px.
-                        assert!((a.0 - b.0).abs() < 1e-8 && (a.1 - b.1).abs() < 1e-8, "{name}");
+                        assert!(
+                            (a.0 - b.0).abs() < 1e-8 && (a.1 - b.1).abs() < 1e-8,
+                            "{name}"
+                        );
                     }
                     (Err(a), Err(b)) => assert_eq!(a.status(), b.status(), "{name}"),
                     (a, b) => panic!("{name}: {a:?} vs {b:?}"),
@@ -278,8 +316,14 @@ fn remap_error_vanishes_at_the_table_distance_and_grows_away_from_it() {
         assert_eq!(same.max_px, 0.0, "{name}");
         assert_eq!(same.rms_px, 0.0, "{name}");
         // Non-central geometry: the error grows with |1/d − 1/D| on both sides.
-        let nearer: Vec<f64> = [1.5, 1.0, 0.5, 0.25].iter().map(|&d| at(d).rms_px).collect();
-        let farther: Vec<f64> = [3.0, 6.0, 20.0, 1000.0].iter().map(|&d| at(d).rms_px).collect();
+        let nearer: Vec<f64> = [1.5, 1.0, 0.5, 0.25]
+            .iter()
+            .map(|&d| at(d).rms_px)
+            .collect();
+        let farther: Vec<f64> = [3.0, 6.0, 20.0, 1000.0]
+            .iter()
+            .map(|&d| at(d).rms_px)
+            .collect();
         for pair in nearer.windows(2).chain(farther.windows(2)) {
             assert!(pair[1] > pair[0], "{name}: {nearer:?} {farther:?}");
         }
@@ -394,7 +438,11 @@ fn stereo_pair() -> StereoPair {
     let b = PortCamera::new(strong_lens(), tilted_port()).unwrap();
     let t = -6f64.to_radians();
     let pose = Pose::new(
-        [[t.cos(), 0.0, t.sin()], [0.0, 1.0, 0.0], [-t.sin(), 0.0, t.cos()]],
+        [
+            [t.cos(), 0.0, t.sin()],
+            [0.0, 1.0, 0.0],
+            [-t.sin(), 0.0, t.cos()],
+        ],
         Vec3::new(0.3, 0.0, 0.0),
     )
     .unwrap();
@@ -415,7 +463,11 @@ fn to_b(pose: &Pose, p: Vec3) -> Vec3 {
 #[test]
 fn stereo_triangulation_recovers_points() {
     let pair = stereo_pair();
-    for p in [Vec3::new(0.1, 0.05, 1.0), Vec3::new(-0.4, 0.3, 3.0), Vec3::new(0.2, -0.1, 8.0)] {
+    for p in [
+        Vec3::new(0.1, 0.05, 1.0),
+        Vec3::new(-0.4, 0.3, 3.0),
+        Vec3::new(0.2, -0.1, 8.0),
+    ] {
         let (ua, va) = pair.a.point_to_pixel(p).unwrap();
         let (ub, vb) = pair.b.point_to_pixel(to_b(&pair.b_to_a, p)).unwrap();
         let hit = pair.triangulate(ua, va, ub, vb).unwrap();
@@ -450,10 +502,16 @@ fn stereo_failures() {
         [[-1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]],
         [[f64::NAN, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]],
     ] {
-        assert!(matches!(Pose::new(rot, Vec3::ZERO), Err(Error::InvalidArgument(_))));
+        assert!(matches!(
+            Pose::new(rot, Vec3::ZERO),
+            Err(Error::InvalidArgument(_))
+        ));
     }
     assert!(matches!(
-        Pose::new(Pose::IDENTITY.rotation(), Vec3::new(f64::INFINITY, 0.0, 0.0)),
+        Pose::new(
+            Pose::IDENTITY.rotation(),
+            Vec3::new(f64::INFINITY, 0.0, 0.0)
+        ),
         Err(Error::InvalidArgument(_))
     ));
     // A NaN pixel.
@@ -498,22 +556,41 @@ fn bad_input() {
         Lens::pinhole(f64::NAN, 1000.0, 640.0, 360.0),
         mild_lens().with_distortion(0.0, f64::INFINITY, 0.0, 0.0, 0.0),
     ] {
-        assert!(matches!(PortCamera::new(lens, port), Err(Error::InvalidArgument(_))));
+        assert!(matches!(
+            PortCamera::new(lens, port),
+            Err(Error::InvalidArgument(_))
+        ));
     }
     // The centre of projection past the port.
     let outside = port.shifted(-0.05).unwrap();
-    assert!(matches!(PortCamera::new(mild_lens(), outside), Err(Error::WrongSide(_))));
+    assert!(matches!(
+        PortCamera::new(mild_lens(), outside),
+        Err(Error::WrongSide(_))
+    ));
     let cam = PortCamera::new(mild_lens(), port).unwrap();
     // NaN pixels and points.
-    assert!(matches!(cam.pixel_to_ray(f64::NAN, 1.0), Err(Error::InvalidArgument(_))));
-    assert!(matches!(cam.pixel_to_ray(1.0, f64::INFINITY), Err(Error::InvalidArgument(_))));
+    assert!(matches!(
+        cam.pixel_to_ray(f64::NAN, 1.0),
+        Err(Error::InvalidArgument(_))
+    ));
+    assert!(matches!(
+        cam.pixel_to_ray(1.0, f64::INFINITY),
+        Err(Error::InvalidArgument(_))
+    ));
     assert!(matches!(
         cam.point_to_pixel(Vec3::new(0.0, f64::NAN, 1.0)),
         Err(Error::InvalidArgument(_))
     ));
     // Behind the camera, inside the housing, inside the window.
-    for p in [Vec3::new(0.0, 0.0, -1.0), Vec3::new(0.0, 0.01, 0.02), Vec3::new(0.0, 0.0, 0.034)] {
-        assert!(matches!(cam.point_to_pixel(p), Err(Error::WrongSide(_))), "{p:?}");
+    for p in [
+        Vec3::new(0.0, 0.0, -1.0),
+        Vec3::new(0.0, 0.01, 0.02),
+        Vec3::new(0.0, 0.0, 0.034),
+    ] {
+        assert!(
+            matches!(cam.point_to_pixel(p), Err(Error::WrongSide(_))),
+            "{p:?}"
+        );
     }
     // Far off to the side: in the water but outside the lens model's region.
     let strong = PortCamera::new(strong_lens(), port).unwrap();
@@ -551,7 +628,14 @@ fn bad_input() {
         ));
     }
     assert!(matches!(
-        cam.remap_table(&Lens::pinhole(0.0, 1.0, 0.0, 0.0), 1.0, 10, 10, &mut mu, &mut mv),
+        cam.remap_table(
+            &Lens::pinhole(0.0, 1.0, 0.0, 0.0),
+            1.0,
+            10,
+            10,
+            &mut mu,
+            &mut mv
+        ),
         Err(Error::InvalidArgument(_))
     ));
     // A table distance inside the housing: nothing visible.
@@ -559,12 +643,20 @@ fn bad_input() {
         cam.remap_error(&target, 0.01, 0.02, 10, 10),
         Err(Error::WrongSide(_))
     ));
-    let visible = cam.remap_table(&target, 0.01, 10, 10, &mut mu, &mut mv).unwrap();
+    let visible = cam
+        .remap_table(&target, 0.01, 10, 10, &mut mu, &mut mv)
+        .unwrap();
     assert_eq!(visible, 0);
     assert!(mu.iter().all(|m| m.is_nan()));
     // Field of view of an empty image.
-    assert!(matches!(cam.field_of_view(0, 0), Err(Error::InvalidArgument(_))));
-    assert!(matches!(cam.field_of_view_in_air(0, 5), Err(Error::InvalidArgument(_))));
+    assert!(matches!(
+        cam.field_of_view(0, 0),
+        Err(Error::InvalidArgument(_))
+    ));
+    assert!(matches!(
+        cam.field_of_view_in_air(0, 5),
+        Err(Error::InvalidArgument(_))
+    ));
 }
 
 #[test]
@@ -582,7 +674,9 @@ fn batches_keep_going_past_failures() {
 
     let points = [rays[0].at(1.0), Vec3::new(0.0, 0.0, -1.0), rays[2].at(3.0)];
     let mut uv2 = [[0.0; 2]; 3];
-    let report = cam.points_to_pixels(&points, &mut uv2, &mut NoStatus).unwrap();
+    let report = cam
+        .points_to_pixels(&points, &mut uv2, &mut NoStatus)
+        .unwrap();
     assert_eq!(report.failed, 1);
     assert_eq!(report.status(), Status::WrongSide);
     assert!(uv2[1][0].is_nan() && uv2[1][1].is_nan());

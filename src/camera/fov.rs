@@ -230,7 +230,7 @@ impl PortCamera {
         let mut best: Option<(usize, f64)> = None;
         for k in 0..TIR_SAMPLES {
             if let Some(r) = distance(k as f64 * step) {
-                if best.is_none_or(|(_, b)| r < b) {
+                if best.map_or(true, |(_, b)| r < b) {
                     best = Some((k, r));
                 }
             }

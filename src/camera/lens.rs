@@ -172,6 +172,11 @@ pub struct Distortion {
     fold_r2: f64,
     /// No distortion terms at all: the maps are the identity.
     identity: bool,
+    /// Tangential terms present. Without them the Jacobian determinant is
+    /// `radial · d(r·radial)/dr`, positive wherever `r² < fold_r2` (there
+    /// `r·radial` rises from 0, so both factors are positive), and need not
+    /// be checked.
+    tangential: bool,
 }
 
 impl Distortion {
@@ -182,6 +187,7 @@ impl Distortion {
             lens: *lens,
             fold_r2: fold_radius_squared(3.0 * lens.k1, 5.0 * lens.k2, 7.0 * lens.k3),
             identity,
+            tangential: lens.p1 != 0.0 || lens.p2 != 0.0,
         }
     }
 
@@ -237,6 +243,9 @@ impl Distortion {
         if r2 >= self.fold_r2 || !r2.is_finite() {
             return false;
         }
+        if !self.tangential {
+            return true;
+        }
         let (_, _, det) = self.distort_with_det(x, y);
         det > 0.0
     }
@@ -247,8 +256,17 @@ impl Distortion {
         if self.identity {
             return (x, y);
         }
-        let (xd, yd, _) = self.distort_with_det(x, y);
-        (xd, yd)
+        let l = &self.lens;
+        let r2 = x * x + y * y;
+        let radial = 1.0 + r2 * (l.k1 + r2 * (l.k2 + r2 * l.k3));
+        if !self.tangential {
+            return (x * radial, y * radial);
+        }
+        let xy = x * y;
+        (
+            x * radial + 2.0 * l.p1 * xy + l.p2 * (r2 + 2.0 * x * x),
+            y * radial + l.p1 * (r2 + 2.0 * y * y) + 2.0 * l.p2 * xy,
+        )
     }
 
     /// Normalised coordinates to the pixel (see [`Lens::project`]).
@@ -267,7 +285,12 @@ impl Distortion {
             (x, y)
         } else {
             let r2 = x * x + y * y;
-            let (xd, yd, det) = self.distort_with_det(x, y);
+            let (xd, yd, det) = if self.tangential {
+                self.distort_with_det(x, y)
+            } else {
+                let (xd, yd) = self.distort(x, y);
+                (xd, yd, 1.0)
+            };
             if r2 >= self.fold_r2 || det <= 0.0 {
                 return Err(Error::OutOfRange(
                     "the direction lies outside the region where the lens distortion model is one-to-one",
@@ -335,7 +358,7 @@ impl Distortion {
             let dradial = l.k1 + r2 * (2.0 * l.k2 + r2 * 3.0 * l.k3);
             let (a, b, c, d) = self.jacobian_parts(x, y, radial, dradial);
             let det = a * d - b * c;
-            if !(det > 0.0) {
+            if det.is_nan() || det <= 0.0 {
                 return Err(not_converged);
             }
             // Newton step: J Δ = r.
@@ -373,7 +396,8 @@ impl Distortion {
             if !accepted {
                 // No decrease along the Newton direction: converged to rounding
                 // only if the residual is already at rounding level.
-                if residual <= (4.0 * f64::EPSILON * (1.0 + math::hypot(xd, yd))).powi(2) {
+                let floor = 4.0 * f64::EPSILON * (1.0 + math::hypot(xd, yd));
+                if residual <= floor * floor {
                     return Ok((x, y));
                 }
                 return Err(not_converged);
@@ -450,7 +474,7 @@ fn fold_radius_squared(a: f64, b: f64, c: f64) -> f64 {
                     top *= 2.0;
                     guard += 1;
                 }
-                if !(g(top) <= 0.0) {
+                if g(top).is_nan() || g(top) > 0.0 {
                     return f64::INFINITY;
                 }
             }
@@ -525,7 +549,8 @@ mod tests {
 
     #[test]
     fn outside_the_valid_region_is_reported() {
-        let lens = Lens::pinhole(1000.0, 1000.0, 0.0, 0.0).with_distortion(-0.25, 0.0, 0.0, 0.0, 0.0);
+        let lens =
+            Lens::pinhole(1000.0, 1000.0, 0.0, 0.0).with_distortion(-0.25, 0.0, 0.0, 0.0, 0.0);
         let d = lens.validate().unwrap();
         // The largest distorted radius is r(1 - 0.25 r²) at r² = 4/3: 2/(3√3)·2 ≈ 0.7698.
         let peak = (4.0f64 / 3.0).sqrt() * (1.0 - 0.25 * 4.0 / 3.0);

@@ -135,7 +135,8 @@ impl PortCamera {
                 "the line of sight leaves the centre of projection backwards (z <= 0)",
             ));
         }
-        self.lens.project(d.x / d.z, d.y / d.z)
+        let inv_z = 1.0 / d.z;
+        self.lens.project(d.x * inv_z, d.y * inv_z)
     }
 
     /// [`PortCamera::pixel_to_ray`] of every pixel `uv[i] = [u, v]`.

@@ -10,8 +10,8 @@
 
 use super::types::{stack_from, FlatrayStack};
 use super::{
-    deliver, guard, optional_out, optional_slice_out, required, required_out, slice_in,
-    slice_out, FlatrayStatus,
+    deliver, guard, optional_out, optional_slice_out, required, required_out, slice_in, slice_out,
+    FlatrayStatus,
 };
 use crate::batch::{BatchReport, NoStatus};
 use crate::camera::{FieldOfView, Lens, PortCamera, Pose, StereoPair};
