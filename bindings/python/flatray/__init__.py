@@ -21,7 +21,9 @@ The raw C functions, with ``argtypes``/``restype`` declared, are attributes of
 from ._version import __version__
 from ._types import (
     MAX_LAYERS,
+    FlatrayCameraView,
     FlatrayFresnel,
+    FlatrayLens,
     FlatrayPath,
     FlatrayRay,
     FlatrayStack,
@@ -110,6 +112,24 @@ from .survey import (
     true_position_covariance,
     true_position_sensitivity,
 )
+from . import camera
+from .camera import (
+    CameraView,
+    Lens,
+    PixelBatch,
+    RemapError,
+    StereoPoint,
+    camera_view,
+    field_of_view,
+    field_of_view_deg,
+    pixel_to_ray,
+    pixels_to_rays,
+    point_to_pixel,
+    points_to_pixels,
+    remap_error,
+    remap_table,
+    stereo_triangulate,
+)
 
 
 def library_version() -> str:
@@ -145,4 +165,10 @@ __all__ = [
     "triangulate", "correct_multiview", "correct_multiview_shortcut", "correct_multiviews",
     "correct_range", "correct_ranges", "true_depths", "correction_factors",
     "correction_factors_deg", "true_position_sensitivity", "true_position_covariance",
+    # Cameras behind a flat port (flatray.camera).
+    "FlatrayLens", "FlatrayCameraView", "camera",
+    "Lens", "CameraView", "PixelBatch", "RemapError", "StereoPoint",
+    "pixel_to_ray", "point_to_pixel", "pixels_to_rays", "points_to_pixels",
+    "remap_table", "remap_error", "field_of_view", "field_of_view_deg", "camera_view",
+    "stereo_triangulate",
 ]

@@ -20,7 +20,9 @@ from pathlib import Path
 from typing import Iterator, Mapping
 
 from ._types import (
+    FlatrayCameraView,
     FlatrayFresnel,
+    FlatrayLens,
     FlatrayPath,
     FlatrayRay,
     FlatrayStack,
@@ -177,6 +179,49 @@ PROTOTYPES: dict[str, tuple[object, list[object]]] = {
         _STATUS,
         [_STACK_P, _VEC, _VEC, ctypes.c_int32, ctypes.c_double, ctypes.c_double,
          ctypes.c_double, ctypes.c_double, _P(ctypes.c_double)],
+    ),
+    "flatray_pixel_to_ray": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, ctypes.c_double, ctypes.c_double, _P(FlatrayRay)],
+    ),
+    "flatray_point_to_pixel": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _VEC, _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
+    "flatray_pixels_to_rays": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _P(ctypes.c_double), ctypes.c_size_t, _P(FlatrayRay),
+         _P(ctypes.c_int32)],
+    ),
+    "flatray_points_to_pixels": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _P(_VEC), ctypes.c_size_t, _P(ctypes.c_double),
+         _P(ctypes.c_int32)],
+    ),
+    "flatray_remap_table": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _P(FlatrayLens), ctypes.c_double, ctypes.c_uint32,
+         ctypes.c_uint32, _P(ctypes.c_float), _P(ctypes.c_float), ctypes.c_size_t],
+    ),
+    "flatray_remap_error": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _P(FlatrayLens), ctypes.c_double, ctypes.c_double,
+         ctypes.c_uint32, ctypes.c_uint32, _P(ctypes.c_double), _P(ctypes.c_double)],
+    ),
+    "flatray_field_of_view": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, ctypes.c_uint32, ctypes.c_uint32, _P(ctypes.c_double),
+         _P(ctypes.c_double)],
+    ),
+    "flatray_camera_view": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, ctypes.c_uint32, ctypes.c_uint32, _P(FlatrayCameraView)],
+    ),
+    "flatray_stereo_triangulate": (
+        _STATUS,
+        [_P(FlatrayLens), _STACK_P, _P(FlatrayLens), _STACK_P, _P(ctypes.c_double),
+         ctypes.c_double, ctypes.c_double, ctypes.c_double, ctypes.c_double, _P(_VEC),
+         _P(ctypes.c_double)],
     ),
     "flatray_version": (ctypes.c_char_p, []),
     "flatray_status_message": (ctypes.c_char_p, [ctypes.c_int32]),

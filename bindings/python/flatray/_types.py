@@ -107,3 +107,35 @@ class FlatrayPath(ctypes.Structure):
         ("optical_length", ctypes.c_double),
         ("transmittance", ctypes.c_double),
     ]
+
+
+class FlatrayLens(ctypes.Structure):
+    """Pinhole intrinsics (pixels) and Brown-Conrady distortion of a lens in air."""
+
+    _fields_ = [
+        ("fx", ctypes.c_double),
+        ("fy", ctypes.c_double),
+        ("cx", ctypes.c_double),
+        ("cy", ctypes.c_double),
+        ("k1", ctypes.c_double),
+        ("k2", ctypes.c_double),
+        ("k3", ctypes.c_double),
+        ("p1", ctypes.c_double),
+        ("p2", ctypes.c_double),
+    ]
+
+
+class FlatrayCameraView(ctypes.Structure):
+    """What a flat-port camera sees (``flatray_camera_view``)."""
+
+    _fields_ = [
+        ("horizontal", ctypes.c_double),
+        ("vertical", ctypes.c_double),
+        ("diagonal", ctypes.c_double),
+        ("horizontal_air", ctypes.c_double),
+        ("vertical_air", ctypes.c_double),
+        ("diagonal_air", ctypes.c_double),
+        ("focal_x_water", ctypes.c_double),
+        ("focal_y_water", ctypes.c_double),
+        ("tir_radius_px", ctypes.c_double),
+    ]

@@ -11,7 +11,7 @@ import pytest
 import flatray
 
 MODULES = ["flatray", "flatray.stack", "flatray.interface", "flatray.path", "flatray.image",
-           "flatray.batch", "flatray.media", "flatray.survey"]
+           "flatray.batch", "flatray.media", "flatray.survey", "flatray.camera"]
 
 
 @pytest.mark.parametrize("name", MODULES)

@@ -81,6 +81,7 @@ def _header_text():
 
 _SCALARS = {
     "double": ctypes.c_double,
+    "float": ctypes.c_float,
     "int32_t": ctypes.c_int32,
     "uint32_t": ctypes.c_uint32,
     "size_t": ctypes.c_size_t,
@@ -90,6 +91,8 @@ _SCALARS = {
     "FlatrayStack": _types.FlatrayStack,
     "FlatrayFresnel": _types.FlatrayFresnel,
     "FlatrayPath": _types.FlatrayPath,
+    "FlatrayLens": _types.FlatrayLens,
+    "FlatrayCameraView": _types.FlatrayCameraView,
 }
 
 
@@ -122,7 +125,7 @@ def _header_functions():
 
 def test_every_header_function_is_declared_exactly():
     header = _header_functions()
-    assert len(header) == 32 + 11  # core and media 32, survey 11
+    assert len(header) == 32 + 11 + 9  # core and media 32, survey 11, camera 9
     assert set(header) == set(_lib.PROTOTYPES)
     for name, (restype, argtypes) in header.items():
         function = getattr(flatray.lib, name)
@@ -134,7 +137,7 @@ def test_structs_match_the_header():
     text = _header_text()
     structs = dict(re.findall(r"typedef struct (\w+) \{(.*?)\} \1;", text, flags=re.S))
     assert set(structs) == {"FlatrayVec3", "FlatrayRay", "FlatrayStack", "FlatrayFresnel",
-                            "FlatrayPath"}
+                            "FlatrayPath", "FlatrayLens", "FlatrayCameraView"}
     for name, body in structs.items():
         fields = []
         for line in body.split(";"):
