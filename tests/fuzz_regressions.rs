@@ -220,3 +220,77 @@ fn line_of_sight_transmittance_never_exceeds_one() {
     .unwrap();
     assert!(path.transmittance <= 1.0, "{}", path.transmittance);
 }
+
+/// Camera target: `flatray_remap_error` returned OK with an infinite RMS for a
+/// lens with an absurd focal length (pixel errors near 1e200 px, whose squares
+/// overflowed). The case below has the same cause (focal lengths of 1e300 px).
+/// Now the RMS is accumulated scaled by the running maximum (finite whenever
+/// the maximum is), and a maximum too large to represent is OUT_OF_RANGE.
+#[test]
+fn huge_remap_errors_are_finite_or_out_of_range() {
+    let lens = flatray::camera::Lens::pinhole(1e300, 1e300, 0.0, 0.0);
+    let target = flatray::camera::Lens::pinhole(1000.0, 1000.0, 3.5, 3.5);
+    let port = FlatrayStack {
+        origin: Vec3::new(0.0, 0.0, 0.03),
+        normal: Vec3::new(0.0, 0.0, 1.0),
+        n_observer: 1.0,
+        layer_count: 1,
+        thickness: [0.008, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0],
+        n_layer: [1.52, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0],
+        n_object: 1.333,
+    };
+    let (mut max, mut rms) = (0.0, 0.0);
+    let status =
+        unsafe { flatray_remap_error(&lens, &port, &target, 1.0, 10.0, 8, 8, &mut max, &mut rms) };
+    match status {
+        FlatrayStatus::FLATRAY_OK => {
+            assert!(
+                max.is_finite() && rms.is_finite() && rms <= max,
+                "{max} {rms}"
+            )
+        }
+        FlatrayStatus::FLATRAY_ERR_OUT_OF_RANGE => assert!(max.is_nan() && rms.is_nan()),
+        other => panic!("{other:?}"),
+    }
+}
+
+/// Camera target: `flatray_remap_table` wrote an entry with a finite u and an
+/// infinite v: the exact pixel (about 1e300 with absurd focal lengths) is
+/// finite as a double but not as a float. Such an entry is now NaN in both maps,
+/// like an invisible point. (Constructed case with the same cause.)
+#[test]
+fn remap_entries_beyond_float_range_are_nan_in_both_maps() {
+    let lens = flatray::camera::Lens::pinhole(1e300, 1e300, 0.0, 0.0);
+    // Column 3 looks straight ahead in x: its u is finite, its v is not.
+    let target = flatray::camera::Lens::pinhole(1000.0, 1000.0, 3.0, 3.5);
+    let port = FlatrayStack {
+        origin: Vec3::new(0.0, 0.0, 0.03),
+        normal: Vec3::new(0.0, 0.0, 1.0),
+        n_observer: 1.0,
+        layer_count: 0,
+        thickness: [0.0; 8],
+        n_layer: [0.0; 8],
+        n_object: 1.333,
+    };
+    let (mut mu, mut mv) = ([0f32; 64], [0f32; 64]);
+    let status = unsafe {
+        flatray_remap_table(
+            &lens,
+            &port,
+            &target,
+            2.0,
+            8,
+            8,
+            mu.as_mut_ptr(),
+            mv.as_mut_ptr(),
+            64,
+        )
+    };
+    assert_eq!(status, FlatrayStatus::FLATRAY_OK);
+    for (u, v) in mu.iter().zip(&mv) {
+        assert!(
+            (u.is_finite() && v.is_finite()) || (u.is_nan() && v.is_nan()),
+            "{u} {v}"
+        );
+    }
+}

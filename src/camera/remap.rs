@@ -27,7 +27,7 @@
 
 use crate::camera::lens::Lens;
 use crate::camera::port::PortCamera;
-use crate::error::{positive, Error, Result};
+use crate::error::{positive, representable, Error, Result};
 use crate::math;
 use crate::path::SolveOptions;
 use crate::stack::MAX_LAYERS;
@@ -390,8 +390,8 @@ impl PortCamera {
     /// pixel of the real image where the point at range `object_distance`
     /// metres from the centre on that target pixel's ray appears, NaN where
     /// that point is not visible (inside the housing, behind the camera, or
-    /// outside the lens model's valid region). Source pixels are not clipped to
-    /// any image size.
+    /// outside the lens model's valid region) or its pixel lies beyond the range
+    /// of `f32`. Source pixels are not clipped to any image size.
     ///
     /// Row-major, pixel (0, 0) the centre of the top-left pixel. Accuracy: the
     /// entries are the exact model's pixels rounded to `f32` (about 6e-5 px at
@@ -432,10 +432,16 @@ impl PortCamera {
             walker.restart(row_start);
             let jf = j as f64;
             for (i, (mu, mv)) in row_u.iter_mut().zip(row_v.iter_mut()).enumerate() {
-                match walker.pixel(i as f64, jf) {
+                // A pixel beyond the range of f32 (absurd intrinsics) is not
+                // representable in the table: NaN like an invisible point.
+                let entry = walker
+                    .pixel(i as f64, jf)
+                    .map(|(u, v)| (u as f32, v as f32))
+                    .filter(|(u, v)| u.is_finite() && v.is_finite());
+                match entry {
                     Some((u, v)) => {
-                        *mu = u as f32;
-                        *mv = v as f32;
+                        *mu = u;
+                        *mv = v;
                         visible += 1;
                     }
                     None => {
@@ -464,7 +470,8 @@ impl PortCamera {
     ///
     /// # Errors
     /// As [`PortCamera::remap_table`] (without the buffer check), and
-    /// [`Error::WrongSide`] when no pixel is visible at both distances.
+    /// [`Error::WrongSide`] when no pixel is visible at both distances,
+    /// [`Error::OutOfRange`] when the error is too large to represent.
     pub fn remap_error(
         &self,
         target: &Lens,
@@ -481,7 +488,9 @@ impl PortCamera {
         let mut at_table = RowWalker::new(self, &solver, target, table);
         let mut at_object = RowWalker::new(self, &solver, target, object);
         let mut max_px: f64 = 0.0;
-        let mut sum_sq = 0.0;
+        // Sum of (e / max)²: the root mean square without overflow for any
+        // representable error (the scaled sum of squares of a vector norm).
+        let mut scaled_sq = 0.0;
         let mut visible = 0usize;
         let mut row_start = (0.0, 0.0);
         for j in 0..height {
@@ -497,8 +506,14 @@ impl PortCamera {
                 }
                 if let (Some(a), Some(b)) = (a, b) {
                     let e = math::hypot(a.0 - b.0, a.1 - b.1);
-                    max_px = max_px.max(e);
-                    sum_sq += e * e;
+                    if e > max_px {
+                        let r = max_px / e;
+                        scaled_sq = 1.0 + scaled_sq * r * r;
+                        max_px = e;
+                    } else if e > 0.0 {
+                        let r = e / max_px;
+                        scaled_sq += r * r;
+                    }
                     visible += 1;
                 }
             }
@@ -508,9 +523,10 @@ impl PortCamera {
                 "no target pixel sees a point past the port at both distances",
             ));
         }
+        representable(max_px, "the remap error is too large to represent")?;
         Ok(RemapResidual {
             max_px,
-            rms_px: math::sqrt(sum_sq / visible as f64),
+            rms_px: max_px * math::sqrt(scaled_sq / visible as f64),
             visible,
         })
     }
