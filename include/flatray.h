@@ -540,8 +540,9 @@ FlatrayStatus flatray_points_to_pixels(const FlatrayLens *lens,
  (`k = j*width + i`), `map_u[k]`, `map_v[k]` receive the real-image pixel of
  the point at range `object_distance` metres from the centre of projection
  on that target pixel's ray, NaN where that point is not visible (inside the
- housing, behind the camera, outside the lens model's valid region). Source
- pixels are not clipped to any image size. Entries are the exact model's
+ housing, behind the camera, outside the lens model's valid region, or a
+ pixel beyond the range of float). Source pixels are not clipped to any image
+ size. Entries are the exact model's
  pixels rounded to float.
 
  # Returns
@@ -587,6 +588,8 @@ FlatrayStatus flatray_remap_table(const FlatrayLens *lens,
    distance.
  * `FLATRAY_ERR_WRONG_SIDE`: no target pixel sees a point past the port at
    both distances, or the centre of projection is not inside the housing.
+ * `FLATRAY_ERR_OUT_OF_RANGE`: the error is too large to represent (absurd
+   focal lengths).
 
  # Safety
  `lens`, `port`, `target`: NULL or valid; `out_max_px`, `out_rms_px`: NULL
