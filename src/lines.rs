@@ -137,7 +137,8 @@ where
 ///
 /// # Errors
 /// [`Error::Degenerate`] for no lines; [`Error::InvalidArgument`] for a zero or
-/// non-finite direction; any error of `line`.
+/// non-finite direction; [`Error::OutOfRange`] when the result overflows; any
+/// error of `line`.
 pub fn rms_miss_with<F>(point: Vec3, count: usize, line: F) -> Result<f64>
 where
     F: Fn(usize) -> Result<Ray>,
@@ -145,6 +146,9 @@ where
     if count == 0 {
         return Err(Error::Degenerate("at least one line is needed"));
     }
+    // Σ |perp|² with the running scale of the largest distance (as a scaled
+    // hypot), so distances beyond 1e154 m cannot overflow the squares.
+    let mut scale = 0.0f64;
     let mut sum = 0.0;
     for i in 0..count {
         let l = line(i)?;
@@ -152,10 +156,20 @@ where
             .direction
             .direction("line direction must be finite and non-zero")?;
         let v = point - l.origin;
-        let perp = v - d * v.dot(d);
-        sum += perp.dot(perp);
+        let dist = (v - d * v.dot(d)).length();
+        if dist > scale {
+            sum = sum * (scale / dist) * (scale / dist) + 1.0;
+            scale = dist;
+        } else if scale > 0.0 {
+            sum += (dist / scale) * (dist / scale);
+        }
     }
-    Ok(math::sqrt(sum / count as f64))
+    let rms = scale * math::sqrt(sum / count as f64);
+    if rms.is_finite() {
+        Ok(rms)
+    } else {
+        Err(Error::OutOfRange("the RMS miss is too large to represent"))
+    }
 }
 
 /// `pivot > min`, false for NaN.

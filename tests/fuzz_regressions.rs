@@ -294,3 +294,45 @@ fn remap_entries_beyond_float_range_are_nan_in_both_maps() {
         );
     }
 }
+
+/// Finite but enormous standard deviations (1.8e308 m for the observer) made
+/// the propagated covariance infinite with an OK status. Now OUT_OF_RANGE.
+#[test]
+fn covariance_overflow_is_out_of_range() {
+    let stack =
+        flatray::Stack::single_interface(Vec3::ZERO, Vec3::new(0.0, 0.0, 1.0), 1.0, 1.33).unwrap();
+    let c_stack = FlatrayStack::from_stack(&stack);
+    let mut cov = [0.0; 9];
+    let status = unsafe {
+        flatray_true_position_covariance(
+            &c_stack,
+            Vec3::new(0.0, 0.0, -1.0),
+            Vec3::new(0.5, 0.0, 1.0),
+            0,
+            0.01,
+            0.001,
+            f64::MAX,
+            0.01,
+            cov.as_mut_ptr(),
+        )
+    };
+    assert_eq!(status, FlatrayStatus::FLATRAY_ERR_OUT_OF_RANGE);
+    assert!(cov.iter().all(|v| v.is_nan()));
+}
+
+/// Lines around 1e272 m: the squared miss distances overflowed and the RMS miss
+/// came back infinite with an OK status. The sum is now scaled; an RMS beyond
+/// f64 is OUT_OF_RANGE.
+#[test]
+fn rms_miss_of_far_lines_is_finite() {
+    let big = 2.068_428_470_140_581e272;
+    let a = Ray::new(Vec3::new(big, 0.99 * big, 0.0), Vec3::new(1.0, 1.0, 1.0));
+    let b = Ray::new(Vec3::new(0.0, 0.0, big), Vec3::new(0.0, 1.0, -0.004));
+    match flatray::lines::intersect(&[a, b]) {
+        Ok(hit) => assert!(hit.rms_miss.is_finite() && hit.point.is_finite(), "{hit:?}"),
+        Err(e) => assert!(
+            matches!(e, Error::OutOfRange(_) | Error::Degenerate(_)),
+            "{e}"
+        ),
+    }
+}

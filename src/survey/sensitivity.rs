@@ -99,7 +99,8 @@ impl Sensitivity {
     /// m²) for independent inputs with standard deviations `u`.
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`] for a standard deviation not finite and >= 0.
+    /// [`Error::InvalidArgument`] for a standard deviation not finite and >= 0;
+    /// [`Error::OutOfRange`] when an entry overflows.
     pub fn covariance(&self, u: &Uncertainty) -> Result<Covariance> {
         let u = u.checked()?;
         let mut c = [[0.0; 3]; 3];
@@ -115,14 +116,22 @@ impl Sensitivity {
                     + u.apparent_m * u.apparent_m * dot3(a_i, a_j);
             }
         }
-        Ok(c)
+        // Finite standard deviations can still square past f64 (a fuzz finding).
+        if c.iter().flatten().all(|v| v.is_finite()) {
+            Ok(c)
+        } else {
+            Err(Error::OutOfRange(
+                "the propagated covariance is too large to represent",
+            ))
+        }
     }
 
     /// The standard uncertainty of the true point's component along `along`
     /// (any non-zero length, e.g. the stack normal for depth), by source.
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`] for a bad `u` or a zero or non-finite `along`.
+    /// [`Error::InvalidArgument`] for a bad `u` or a zero or non-finite `along`;
+    /// [`Error::OutOfRange`] when the total overflows.
     pub fn budget(&self, u: &Uncertainty, along: Vec3) -> Result<Budget> {
         let u = u.checked()?;
         let e = along.direction("the budget direction must be finite and non-zero")?;
@@ -146,6 +155,11 @@ impl Sensitivity {
                 + observer_m * observer_m
                 + apparent_m * apparent_m,
         );
+        if !total_m.is_finite() {
+            return Err(Error::OutOfRange(
+                "the uncertainty budget is too large to represent",
+            ));
+        }
         Ok(Budget {
             offset_m,
             n_object_m,
@@ -424,7 +438,7 @@ pub fn true_position_sensitivity(
 ///
 /// # Errors
 /// As [`true_position_sensitivity`]; [`Error::InvalidArgument`] for a standard
-/// deviation not finite and >= 0.
+/// deviation not finite and >= 0; [`Error::OutOfRange`] when an entry overflows.
 pub fn true_position_covariance(
     stack: &Stack,
     observer: Vec3,
