@@ -81,6 +81,55 @@ fn run_all(stack: &Stack, c_stack: &FlatrayStack) -> Vec<u64> {
     }
     out.extend(res.iter().flat_map(|v| [v.x, v.y, v.z]));
     out.extend(status.iter().map(|&s| f64::from(s)));
+    // Refractive indices, a camera behind the port, survey corrections.
+    for k in 0..10 {
+        let t = 2.0 + 2.5 * k as f64;
+        out.push(
+            flatray::PureWater::new(t, 2e5)
+                .refractive_index(450.0 + 20.0 * k as f64)
+                .unwrap_or(f64::NAN),
+        );
+        out.push(
+            flatray::Seawater::new(t, 35.0)
+                .group_index(532.0)
+                .unwrap_or(f64::NAN),
+        );
+        out.push(
+            flatray::Air::new(t, 101_325.0, 0.3)
+                .refractive_index(532.0)
+                .unwrap_or(f64::NAN),
+        );
+    }
+    let camera = flatray::camera::PortCamera::new(
+        flatray::camera::Lens::pinhole(1400.0, 1400.0, 960.0, 540.0)
+            .with_distortion(-0.1, 0.02, 0.0, 1e-4, -2e-4),
+        *stack,
+    );
+    if let Ok(camera) = camera {
+        for k in 0..20 {
+            let (u, v) = (100.0 + 80.0 * k as f64, 60.0 + 40.0 * k as f64);
+            let ray = camera.pixel_to_ray(u, v).unwrap_or(Ray::NAN);
+            out.extend([ray.direction.x, ray.direction.y]);
+            let (pu, pv) = camera
+                .point_to_pixel(ray.at(2.0))
+                .unwrap_or((f64::NAN, f64::NAN));
+            out.extend([pu, pv]);
+        }
+    }
+    let cameras = [
+        Vec3::new(-3.0, 0.0, -20.0),
+        Vec3::new(4.0, 1.0, -25.0),
+        Vec3::new(0.5, -6.0, -18.0),
+    ];
+    for k in 0..10 {
+        let apparent = Vec3::new(k as f64 * 0.3, 1.0, 1.5);
+        let p = flatray::survey::correct_multiview(stack, &cameras, apparent)
+            .map_or(Vec3::NAN, |r| r.point);
+        out.extend([p.x, p.y, p.z]);
+        let r =
+            flatray::survey::correct_range(stack, cameras[0], apparent, None).unwrap_or(Vec3::NAN);
+        out.extend([r.x, r.y, r.z]);
+    }
     out.into_iter().map(f64::to_bits).collect()
 }
 
