@@ -192,6 +192,39 @@ typedef struct FlatrayStack {
 } FlatrayStack;
 
 /*
+ The light path between an observer and an object through a stack.
+
+ Laid out as `FlatrayPath` in C.
+ */
+typedef struct FlatrayPath {
+  /*
+   Unit direction at the observer, toward the stack (the line of sight).
+   */
+  FlatrayVec3 direction;
+  /*
+   Where the path meets the first interface, metres.
+   */
+  FlatrayVec3 entry;
+  /*
+   Where the path meets the last interface, metres (equal to `entry` for a
+   single interface).
+   */
+  FlatrayVec3 exit;
+  /*
+   Length of the path from observer to object, metres.
+   */
+  double geometric_length;
+  /*
+   Optical path length `Σ n_k s_k`, metres.
+   */
+  double optical_length;
+  /*
+   Transmittance of unpolarised light, `(Π Ts + Π Tp) / 2`.
+   */
+  double transmittance;
+} FlatrayPath;
+
+/*
  A ray: an origin (metres) and a propagation direction.
 
  Directions returned by flatray are unit vectors; directions passed in need not
@@ -338,39 +371,6 @@ typedef struct FlatrayFresnel {
   double t;
 } FlatrayFresnel;
 
-/*
- The light path between an observer and an object through a stack.
-
- Laid out as `FlatrayPath` in C.
- */
-typedef struct FlatrayPath {
-  /*
-   Unit direction at the observer, toward the stack (the line of sight).
-   */
-  FlatrayVec3 direction;
-  /*
-   Where the path meets the first interface, metres.
-   */
-  FlatrayVec3 entry;
-  /*
-   Where the path meets the last interface, metres (equal to `entry` for a
-   single interface).
-   */
-  FlatrayVec3 exit;
-  /*
-   Length of the path from observer to object, metres.
-   */
-  double geometric_length;
-  /*
-   Optical path length `Σ n_k s_k`, metres.
-   */
-  double optical_length;
-  /*
-   Transmittance of unpolarised light, `(Π Ts + Π Tp) / 2`.
-   */
-  double transmittance;
-} FlatrayPath;
-
 
 
 
@@ -421,6 +421,32 @@ FlatrayStatus flatray_apparent_positions(const FlatrayStack *stack,
                                               int32_t image,
                                               FlatrayVec3 *out_apparent,
                                               int32_t *out_status);
+
+/*
+ Lines of sight from observers to `count` object points (see
+ `flatray_line_of_sight`), on every core for large batches.
+
+ `observers` holds 1 point (shared by all) or `count` points. `out_paths` has
+ room for `count` paths; `out_status` is NULL or has room for `count` codes.
+ A failing point gets its status and a path of NaN fields.
+
+ # Returns
+ `FLATRAY_OK` when every point succeeded, else the status of the lowest-index
+ failing point; whole-call errors `FLATRAY_ERR_NULL_POINTER` (NULL stack, or
+ an array NULL with a count above 0) and `FLATRAY_ERR_INVALID_ARGUMENT`
+ (invalid stack, `observer_count` neither 1 nor `count`) write nothing.
+
+ # Safety
+ `stack` NULL or valid; each array NULL (only with a count of 0, or for
+ `out_status`) or valid for its count; outputs must not overlap inputs.
+ */
+FlatrayStatus flatray_lines_of_sight(const FlatrayStack *stack,
+                                          const FlatrayVec3 *observers,
+                                          size_t observer_count,
+                                          const FlatrayVec3 *objects,
+                                          size_t count,
+                                          FlatrayPath *out_paths,
+                                          int32_t *out_status);
 
 /*
  Trace `count` observer rays (see `flatray_trace`). `out_transmittance` and

@@ -1,5 +1,5 @@
-//! Batch forms of the per-point functions, over caller slices, with a status
-//! per element.
+//! Batch forms of the per-point functions (true and apparent positions, lines
+//! of sight, traces), over caller slices, with a status per element.
 //!
 //! Conventions (DESIGN.md): a whole-call error (observer count neither 1 nor
 //! the point count, an output slice too short) returns at once and writes
@@ -13,7 +13,7 @@
 
 use crate::error::{Error, Result, Status};
 use crate::image::{apparent_position, true_position, Image};
-use crate::path::trace;
+use crate::path::{line_of_sight, trace, Path};
 use crate::stack::Stack;
 use crate::survey::parallel::{self, fill};
 use crate::vector::{Ray, Vec3};
@@ -163,18 +163,20 @@ pub(crate) fn observer_of(observers: &[Vec3], i: usize) -> Vec3 {
     observers.get(j).copied().unwrap_or(Vec3::NAN)
 }
 
-/// Run `each(observer, point)` over the points, writing results and
-/// statuses (on every core for large batches).
-pub(crate) fn run_points<S, F>(
+/// Run `each(observer, point)` over the points, writing results (`nan` for a
+/// failed element) and statuses (on every core for large batches).
+pub(crate) fn run_points<T, S, F>(
     observers: &[Vec3],
     points: &[Vec3],
-    out: &mut [Vec3],
+    out: &mut [T],
+    nan: T,
     status: &mut S,
     each: F,
 ) -> Result<BatchReport>
 where
+    T: Copy + Send + Sync,
     S: StatusSink + ?Sized,
-    F: Fn(Vec3, Vec3) -> Result<Vec3> + Sync,
+    F: Fn(Vec3, Vec3) -> Result<T> + Sync,
 {
     check_observers(observers, points.len())?;
     check_lengths(points.len(), &[out.len()], status)?;
@@ -185,7 +187,7 @@ where
         (points, out),
         status,
         |offset, (points, out), sink| {
-            fill(offset, out, Vec3::NAN, sink, |i| {
+            fill(offset, out, nan, sink, |i| {
                 let p = points.get(i).copied().unwrap_or(Vec3::NAN);
                 each(observer_of(observers, offset + i), p)
             })
@@ -226,7 +228,7 @@ pub fn true_positions<S: StatusSink + ?Sized>(
     out: &mut [Vec3],
     status: &mut S,
 ) -> Result<BatchReport> {
-    run_points(observers, apparent, out, status, |o, a| {
+    run_points(observers, apparent, out, Vec3::NAN, status, |o, a| {
         true_position(stack, o, a, image)
     })
 }
@@ -244,8 +246,45 @@ pub fn apparent_positions<S: StatusSink + ?Sized>(
     out: &mut [Vec3],
     status: &mut S,
 ) -> Result<BatchReport> {
-    run_points(observers, objects, out, status, |o, x| {
+    run_points(observers, objects, out, Vec3::NAN, status, |o, x| {
         apparent_position(stack, o, x, image)
+    })
+}
+
+/// [`line_of_sight`] from each observer to each object point (default
+/// accuracy); conventions as [`true_positions`]. A failed element's path is
+/// [`Path::NAN`].
+///
+/// # Errors
+/// As [`true_positions`].
+///
+/// # Example
+/// ```
+/// use flatray::{batch, Layer, Path, Stack, Status, Vec3};
+/// // A camera behind a 10 mm glass port (z forward); the second object is
+/// // inside the port, not in the water.
+/// let port = Stack::new(Vec3::new(0.0, 0.0, 0.04), Vec3::new(0.0, 0.0, 1.0),
+///                       1.000_28, &[Layer::new(0.010, 1.52)], 1.339)?;
+/// let camera = [Vec3::ZERO];
+/// let objects = [Vec3::new(0.3, -0.1, 2.0), Vec3::new(0.0, 0.0, 0.045)];
+/// let mut paths = [Path::NAN; 2];
+/// let mut status = [Status::Ok; 2];
+/// let report = batch::lines_of_sight(&port, &camera, &objects, &mut paths, &mut status[..])?;
+/// assert_eq!(status, [Status::Ok, Status::WrongSide]);
+/// assert_eq!(report.first_failure.map(|f| f.0), Some(1));
+/// assert!((paths[0].direction.length() - 1.0).abs() < 1e-15);
+/// assert!(paths[1].optical_length.is_nan());
+/// # Ok::<(), flatray::Error>(())
+/// ```
+pub fn lines_of_sight<S: StatusSink + ?Sized>(
+    stack: &Stack,
+    observers: &[Vec3],
+    objects: &[Vec3],
+    out: &mut [Path],
+    status: &mut S,
+) -> Result<BatchReport> {
+    run_points(observers, objects, out, Path::NAN, status, |o, x| {
+        line_of_sight(stack, o, x)
     })
 }
 

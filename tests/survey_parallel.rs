@@ -7,7 +7,7 @@ use flatray::survey::{
     correct_multiviews, correct_ranges, true_depths, true_position_covariances, Covariance,
     Multiview, Uncertainty, Views,
 };
-use flatray::{batch, Image, Ray, Stack, Status, Vec3};
+use flatray::{batch, Image, Path, Ray, Stack, Status, Vec3};
 
 const N: usize = 20_000;
 
@@ -95,6 +95,26 @@ fn every_batch_is_identical_on_one_thread_and_on_all() {
         (bits(&out), st, r)
     });
     assert_eq!(a, b);
+
+    let (a, b) = both(|| {
+        let mut out = vec![Path::NAN; N];
+        let mut st = vec![Status::Ok; N];
+        let r = batch::lines_of_sight(&stack, &observers, &points, &mut out, &mut st[..]).unwrap();
+        let v: Vec<Vec3> = out
+            .iter()
+            .flat_map(|p| {
+                [
+                    p.direction,
+                    p.entry,
+                    p.exit,
+                    Vec3::new(p.geometric_length, p.optical_length, p.transmittance),
+                ]
+            })
+            .collect();
+        (bits(&v), st, r)
+    });
+    assert_eq!(a, b);
+    assert!(a.2.failed > 0);
 
     let rays: Vec<Ray> = points
         .iter()

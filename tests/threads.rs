@@ -81,6 +81,24 @@ fn run_all(stack: &Stack, c_stack: &FlatrayStack) -> Vec<u64> {
     }
     out.extend(res.iter().flat_map(|v| [v.x, v.y, v.z]));
     out.extend(status.iter().map(|&s| f64::from(s)));
+    let mut paths = vec![flatray::Path::NAN; points.len()];
+    unsafe {
+        flatray_lines_of_sight(
+            c_stack,
+            observers.as_ptr(),
+            1,
+            points.as_ptr(),
+            points.len(),
+            paths.as_mut_ptr(),
+            status.as_mut_ptr(),
+        );
+    }
+    out.extend(
+        paths
+            .iter()
+            .flat_map(|p| [p.direction.x, p.exit.y, p.optical_length]),
+    );
+    out.extend(status.iter().map(|&s| f64::from(s)));
     // Refractive indices, a camera behind the port, survey corrections.
     for k in 0..10 {
         let t = 2.0 + 2.5 * k as f64;

@@ -10,7 +10,8 @@
 #      (with an rpath);
 #   2. the example program, the same way;
 #   3. every test program linked against the static library;
-#   4. the shared-library tests under valgrind, when valgrind is installed.
+#   4. the shared-library tests under valgrind, when valgrind is installed
+#      (valgrind.supp: rayon's pool threads, which live until exit).
 # Outputs go to bindings/c/build/ (git-ignored).
 set -euo pipefail
 
@@ -74,7 +75,8 @@ done
 if command -v valgrind >/dev/null 2>&1; then
     for t in "${tests[@]}"; do
         echo "== $t under valgrind (shared library)"
-        valgrind --error-exitcode=1 --leak-check=full --quiet "$build/$t"
+        valgrind --error-exitcode=1 --leak-check=full --quiet \
+            --suppressions="$here/valgrind.supp" "$build/$t"
     done
     echo "valgrind: no errors"
 else

@@ -1,4 +1,5 @@
-//! The batch C functions with arbitrary counts, NULL pointers, observer counts
+//! The batch C functions (true and apparent positions, lines of sight, traces)
+//! with arbitrary counts, NULL pointers, observer counts
 //! and elements.
 //!
 //! Invariants: a defined status; whole-call errors write nothing; otherwise
@@ -10,8 +11,8 @@
 mod input;
 
 use flatray::capi::*;
-use flatray::{Ray, Vec3};
-use input::{defined, is_nan3, Input};
+use flatray::{Path, Ray, Vec3};
+use input::{defined, is_nan3, is_unit, Input};
 use libfuzzer_sys::fuzz_target;
 
 const SENTINEL: f64 = -7.25;
@@ -66,6 +67,53 @@ fuzz_target!(|bytes: &[u8]| {
                 assert!(defined(s));
                 assert!(if s == 0 { v.is_finite() } else { is_nan3(*v) });
             }
+        }
+    }
+
+    // Lines of sight: the same rules, and each element equals its single call.
+    {
+        let los_whole_call_error = c_stack.to_stack().is_err()
+            || (observer_count != 1 && observer_count != count)
+            || (obs_ptr.is_null() && observer_count > 0)
+            || (pts_ptr.is_null() && count > 0);
+        let mut sentinel = Path::NAN;
+        sentinel.geometric_length = SENTINEL;
+        let mut paths = vec![sentinel; count];
+        let mut status = vec![-99i32; count];
+        let status_ptr = if flags & 0x08 != 0 { std::ptr::null_mut() } else { status.as_mut_ptr() };
+        let r = unsafe {
+            flatray_lines_of_sight(&c_stack, obs_ptr, observer_count, pts_ptr, count, paths.as_mut_ptr(), status_ptr)
+        } as i32;
+        assert!(defined(r));
+        if los_whole_call_error {
+            assert!(r != 0, "a whole-call error returned OK");
+            assert!(paths.iter().all(|p| p.geometric_length == SENTINEL) && status.iter().all(|&s| s == -99), "whole-call error wrote outputs");
+        } else {
+            let mut first = 0;
+            for (i, path) in paths.iter().enumerate() {
+                let observer = observers[if observer_count == 1 { 0 } else { i }];
+                let mut one = Path::NAN;
+                let s1 = unsafe { flatray_line_of_sight(&c_stack, observer, points[i], &mut one) } as i32;
+                if first == 0 {
+                    first = s1;
+                }
+                if !status_ptr.is_null() {
+                    assert_eq!(status[i], s1, "element status differs from the single call");
+                }
+                let fields = |p: &Path| [p.direction, p.entry, p.exit, Vec3::new(p.geometric_length, p.optical_length, p.transmittance)];
+                if s1 == 0 {
+                    let same = fields(path).iter().zip(fields(&one).iter()).all(|(a, b)| {
+                        a.x.to_bits() == b.x.to_bits() && a.y.to_bits() == b.y.to_bits() && a.z.to_bits() == b.z.to_bits()
+                    });
+                    assert!(same, "a batch path differs from the single call");
+                    assert!(fields(path).iter().all(|v| v.is_finite()));
+                    assert!(is_unit(path.direction));
+                    assert!((0.0..=1.0).contains(&path.transmittance));
+                } else {
+                    assert!(fields(path).iter().all(|v| is_nan3(*v)), "a failed path is not all NaN");
+                }
+            }
+            assert_eq!(r, first, "return value is not the lowest-index failure");
         }
     }
 

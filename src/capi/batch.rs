@@ -1,4 +1,5 @@
-//! Batch C functions: true positions, apparent positions and ray traces.
+//! Batch C functions: true positions, apparent positions, lines of sight and
+//! ray traces.
 //!
 //! Whole-call errors (NULL stack, invalid stack, `observer_count` neither 1 nor
 //! `count`, unknown `image`, NULL arrays with a count above 0) return at once
@@ -10,6 +11,7 @@
 use super::types::{image_from, stack_from, FlatrayStack};
 use super::{guard, optional_slice_out, slice_in, slice_out, FlatrayStatus};
 use crate::batch::{self, BatchReport, NoStatus, StatusSink};
+use crate::path::Path;
 use crate::vector::{Ray, Vec3};
 use crate::{Image, Stack};
 
@@ -160,6 +162,57 @@ pub unsafe extern "C" fn flatray_apparent_positions(
     })
 }
 
+/// Lines of sight from observers to `count` object points (see
+/// `flatray_line_of_sight`), on every core for large batches.
+///
+/// `observers` holds 1 point (shared by all) or `count` points. `out_paths` has
+/// room for `count` paths; `out_status` is NULL or has room for `count` codes.
+/// A failing point gets its status and a path of NaN fields.
+///
+/// # Returns
+/// `FLATRAY_OK` when every point succeeded, else the status of the lowest-index
+/// failing point; whole-call errors `FLATRAY_ERR_NULL_POINTER` (NULL stack, or
+/// an array NULL with a count above 0) and `FLATRAY_ERR_INVALID_ARGUMENT`
+/// (invalid stack, `observer_count` neither 1 nor `count`) write nothing.
+///
+/// # Safety
+/// `stack` NULL or valid; each array NULL (only with a count of 0, or for
+/// `out_status`) or valid for its count; outputs must not overlap inputs.
+
+#[no_mangle]
+pub unsafe extern "C" fn flatray_lines_of_sight(
+    stack: *const FlatrayStack,
+    observers: *const Vec3,
+    observer_count: usize,
+    objects: *const Vec3,
+    count: usize,
+    out_paths: *mut Path,
+    out_status: *mut i32,
+) -> FlatrayStatus {
+    guard(|| {
+        // SAFETY: caller contract for each pointer.
+        let stack = unsafe { stack_from(stack) }?;
+        if observer_count != 1 && observer_count != count {
+            return Err(FlatrayStatus::FLATRAY_ERR_INVALID_ARGUMENT);
+        }
+        let observers = unsafe { slice_in(observers, observer_count) }?;
+        let objects = unsafe { slice_in(objects, count) }?;
+        let out = unsafe { slice_out(out_paths, count) }?;
+        match unsafe { optional_slice_out(out_status, count) }? {
+            Some(status) => finish(batch::lines_of_sight(
+                &stack, observers, objects, out, status,
+            )),
+            None => finish(batch::lines_of_sight(
+                &stack,
+                observers,
+                objects,
+                out,
+                &mut NoStatus,
+            )),
+        }
+    })
+}
+
 /// Trace `count` observer rays (see `flatray_trace`). `out_transmittance` and
 /// `out_status` may be NULL.
 ///
@@ -196,4 +249,116 @@ pub unsafe extern "C" fn flatray_trace_rays(
             )),
         }
     })
+}
+
+#[cfg(all(test, feature = "std"))]
+mod tests {
+    use super::*;
+    use crate::capi::FlatrayStack;
+
+    fn lake() -> FlatrayStack {
+        FlatrayStack {
+            origin: Vec3::ZERO,
+            normal: Vec3::new(0.0, 0.0, -1.0),
+            n_observer: 1.000_28,
+            layer_count: 0,
+            thickness: [0.0; 8],
+            n_layer: [0.0; 8],
+            n_object: 1.334,
+        }
+    }
+
+    #[test]
+    fn lines_of_sight_report_each_point() {
+        let drone = [Vec3::new(0.0, 0.0, 12.0)];
+        let rocks = [
+            Vec3::new(4.0, 1.0, -2.5),
+            Vec3::new(f64::NAN, 0.0, -1.0),
+            Vec3::new(1.0, 0.0, 3.0), // above the water
+        ];
+        let mut paths = [Path::NAN; 3];
+        let mut status = [-1i32; 3];
+        let rc = unsafe {
+            flatray_lines_of_sight(
+                &lake(),
+                drone.as_ptr(),
+                1,
+                rocks.as_ptr(),
+                3,
+                paths.as_mut_ptr(),
+                status.as_mut_ptr(),
+            )
+        };
+        assert_eq!(rc, FlatrayStatus::FLATRAY_ERR_INVALID_ARGUMENT); // the NaN point
+        assert_eq!(status, [0, 2, 5]);
+        let single = crate::line_of_sight(&lake().to_stack().unwrap(), drone[0], rocks[0]);
+        assert_eq!(single, Ok(paths[0]));
+        assert!(paths[1].direction.z.is_nan() && paths[2].transmittance.is_nan());
+    }
+
+    #[test]
+    fn lines_of_sight_whole_call_errors_write_nothing() {
+        let observers = [Vec3::new(0.0, 0.0, 12.0); 2];
+        let rocks = [Vec3::new(4.0, 1.0, -2.5); 3];
+        let mut paths = [Path::NAN; 3];
+        paths[0].geometric_length = 7.0;
+        let mut status = [-1i32; 3];
+        let call = |stack: *const FlatrayStack,
+                    obs: *const Vec3,
+                    obs_n: usize,
+                    pts: *const Vec3,
+                    paths: &mut [Path; 3],
+                    status: &mut [i32; 3]| unsafe {
+            flatray_lines_of_sight(
+                stack,
+                obs,
+                obs_n,
+                pts,
+                3,
+                paths.as_mut_ptr(),
+                status.as_mut_ptr(),
+            )
+        };
+        let o = observers.as_ptr();
+        let p = rocks.as_ptr();
+        let null: *const Vec3 = core::ptr::null();
+        let mut bad = lake();
+        bad.n_object = -1.0;
+        for (rc, want) in [
+            (call(&lake(), o, 2, p, &mut paths, &mut status), 2), // 2 observers, 3 points
+            (call(core::ptr::null(), o, 1, p, &mut paths, &mut status), 1),
+            (call(&bad, o, 1, p, &mut paths, &mut status), 2),
+            (call(&lake(), null, 1, p, &mut paths, &mut status), 1),
+            (call(&lake(), o, 1, null, &mut paths, &mut status), 1),
+        ] {
+            assert_eq!(rc as i32, want);
+            assert_eq!(status, [-1; 3]);
+            assert_eq!(paths[0].geometric_length, 7.0);
+        }
+        let rc = unsafe {
+            flatray_lines_of_sight(
+                &lake(),
+                o,
+                1,
+                p,
+                3,
+                core::ptr::null_mut(),
+                status.as_mut_ptr(),
+            )
+        };
+        assert_eq!(rc, FlatrayStatus::FLATRAY_ERR_NULL_POINTER);
+        // An empty batch may be all NULL.
+        let rc = unsafe {
+            flatray_lines_of_sight(
+                &lake(),
+                null,
+                0,
+                null,
+                0,
+                core::ptr::null_mut(),
+                core::ptr::null_mut(),
+            )
+        };
+        assert_eq!(rc, FlatrayStatus::FLATRAY_OK);
+    }
 }

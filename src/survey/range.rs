@@ -243,7 +243,7 @@ pub fn correct_ranges<S: StatusSink + ?Sized>(
     if let Some(g) = group {
         g.check(stack)?;
     }
-    run_points(sensors, uncorrected, out, status, |s, u| {
+    run_points(sensors, uncorrected, out, Vec3::NAN, status, |s, u| {
         correct_range(stack, s, u, group)
     })
 }
