@@ -178,7 +178,6 @@ pub unsafe extern "C" fn flatray_apparent_positions(
 /// # Safety
 /// `stack` NULL or valid; each array NULL (only with a count of 0, or for
 /// `out_status`) or valid for its count; outputs must not overlap inputs.
-
 #[no_mangle]
 pub unsafe extern "C" fn flatray_lines_of_sight(
     stack: *const FlatrayStack,
