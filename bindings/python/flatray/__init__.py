@@ -57,7 +57,15 @@ from .image import (
     true_depth_deg,
     true_position,
 )
-from .batch import PointBatch, RayBatch, apparent_positions, trace_rays, true_positions
+from .batch import (
+    PathBatch,
+    PointBatch,
+    RayBatch,
+    apparent_positions,
+    lines_of_sight,
+    trace_rays,
+    true_positions,
+)
 from .media import (
     STANDARD_PRESSURE_PA,
     Air,
@@ -151,7 +159,8 @@ __all__ = [
     "Traced", "Path", "trace", "line_of_sight",
     "apparent_position", "true_position", "apparent_depth", "true_depth",
     "apparent_depth_deg", "true_depth_deg",
-    "PointBatch", "RayBatch", "true_positions", "apparent_positions", "trace_rays",
+    "PointBatch", "RayBatch", "PathBatch", "true_positions", "apparent_positions",
+    "lines_of_sight", "trace_rays",
     # Refractive indices and the stack builder (flatray.media).
     "STANDARD_PRESSURE_PA", "Material", "Footing", "IndexResult",
     "index_pure_water", "group_index_pure_water", "index_water_at_density",

@@ -52,6 +52,11 @@ PROTOTYPES: dict[str, tuple[object, list[object]]] = {
         [_STACK_P, _P(_VEC), ctypes.c_size_t, _P(_VEC), ctypes.c_size_t, ctypes.c_int32,
          _P(_VEC), _P(ctypes.c_int32)],
     ),
+    "flatray_lines_of_sight": (
+        _STATUS,
+        [_STACK_P, _P(_VEC), ctypes.c_size_t, _P(_VEC), ctypes.c_size_t, _P(FlatrayPath),
+         _P(ctypes.c_int32)],
+    ),
     "flatray_trace_rays": (
         _STATUS,
         [_STACK_P, _P(FlatrayRay), ctypes.c_size_t, _P(FlatrayRay), _P(ctypes.c_double),

@@ -1,4 +1,5 @@
-"""Batch functions over numpy arrays: one C call for N points or rays.
+"""Batch functions over numpy arrays: one C call for N points, rays or lines of
+sight.
 
 Each takes (N, 3) arrays (converted to C-contiguous float64 only when they are
 not already), passes the numpy buffers to the library directly, and returns
@@ -21,11 +22,12 @@ import numpy as np
 
 from . import _lib
 from ._convert import image_code, observers as _observers, points as _points
-from ._types import FlatrayRay, FlatrayVec3, Image, Status
+from ._types import FlatrayPath, FlatrayRay, FlatrayVec3, Image, Status
 from .stack import c_stack
 
 _VEC_P = ctypes.POINTER(FlatrayVec3)
 _RAY_P = ctypes.POINTER(FlatrayRay)
+_PATH_P = ctypes.POINTER(FlatrayPath)
 _DOUBLE_P = ctypes.POINTER(ctypes.c_double)
 _INT32_P = ctypes.POINTER(ctypes.c_int32)
 
@@ -50,6 +52,27 @@ class RayBatch(NamedTuple):
     #: (N, 3) unit directions in the object's medium.
     directions: np.ndarray
     #: (N,) transmittance of unpolarised light.
+    transmittance: np.ndarray
+    #: (N,) int32 :class:`Status` codes.
+    status: np.ndarray
+
+
+class PathBatch(NamedTuple):
+    """Result of :func:`lines_of_sight`: the fields of N paths, each a view into
+    one (N, 12) float64 buffer laid out as N ``FlatrayPath`` structs. Failed
+    elements are NaN in every field."""
+
+    #: (N, 3) unit directions at the observer, toward the stack (the lines of sight).
+    direction: np.ndarray
+    #: (N, 3) where each path meets the first interface, metres.
+    entry: np.ndarray
+    #: (N, 3) where each path meets the last interface, metres.
+    exit: np.ndarray
+    #: (N,) path lengths from observer to object, metres.
+    geometric_length: np.ndarray
+    #: (N,) optical path lengths, sum of n times segment length, metres.
+    optical_length: np.ndarray
+    #: (N,) transmittance of unpolarised light, (prod Ts + prod Tp) / 2.
     transmittance: np.ndarray
     #: (N,) int32 :class:`Status` codes.
     status: np.ndarray
@@ -126,6 +149,43 @@ def apparent_positions(stack, observers, objects, image=Image.SAGITTAL, *,
     """
     return _point_batch("flatray_apparent_positions", stack, observers, objects, "objects",
                         image, raise_on_error)
+
+
+def lines_of_sight(stack, observers, objects, *, raise_on_error: bool = False) -> PathBatch:
+    """Lines of sight (light paths, Fermat's principle) from observers to N
+    object points in one library call, on every core for large N.
+
+    Args:
+        stack: a :class:`~flatray.Stack`.
+        observers: shape (3,) or (1, 3) for one shared observer, or (N, 3).
+        objects: (N, 3) object points past the last interface, metres.
+        raise_on_error: raise the lowest-index element failure instead of only
+            reporting it in ``status``.
+
+    Returns:
+        :class:`PathBatch` ``(direction, entry, exit, geometric_length,
+        optical_length, transmittance, status)``, each element equal to
+        :func:`~flatray.line_of_sight` of the same points.
+
+    Example:
+        >>> lake = Stack.single_interface((0, 0, 0), (0, 0, -1), 1.0, 1.333)
+        >>> p = lines_of_sight(lake, (0, 0, 10), [[3, 0, -2], [0, 0, 1]])
+        >>> p.status.tolist()                 # the second point is above the water
+        [0, 5]
+        >>> bool(0 < p.entry[0, 0] < 3), bool(np.isnan(p.direction[1]).all())
+        (True, True)
+    """
+    pts = _points(objects, "objects")
+    obs = _observers(observers, len(pts))
+    n = len(pts)
+    out = np.empty((n, 12), dtype=np.float64)
+    status = np.full(n, _UNSET, dtype=np.int32)
+    rc = _lib.lib.flatray_lines_of_sight(
+        c_stack(stack), obs.ctypes.data_as(_VEC_P), len(obs), pts.ctypes.data_as(_VEC_P), n,
+        out.ctypes.data_as(_PATH_P), status.ctypes.data_as(_INT32_P))
+    _finish(rc, status, "flatray_lines_of_sight", raise_on_error)
+    return PathBatch(out[:, 0:3], out[:, 3:6], out[:, 6:9], out[:, 9], out[:, 10], out[:, 11],
+                     status)
 
 
 def trace_rays(stack, origins, directions, *, raise_on_error: bool = False) -> RayBatch:

@@ -211,3 +211,102 @@ def test_trace_rays_total_internal_reflection():
     with pytest.raises(flatray.TotalInternalReflectionError) as info:
         flatray.trace_rays(from_below, (0, 0, -1), directions, raise_on_error=True)
     assert info.value.index == 2
+
+
+# --- lines of sight ------------------------------------------------------------
+
+PATH_P = ctypes.POINTER(flatray.FlatrayPath)
+
+
+def _path_fields(batch, i):
+    return np.concatenate([batch.direction[i], batch.entry[i], batch.exit[i],
+                           [batch.geometric_length[i], batch.optical_length[i],
+                            batch.transmittance[i]]])
+
+
+def _single_fields(path):
+    return np.concatenate([path.direction, path.entry, path.exit,
+                           [path.geometric_length, path.optical_length, path.transmittance]])
+
+
+def test_lines_of_sight_equal_the_single_calls(lake, port):
+    paths = flatray.lines_of_sight(lake, EYE, OBJECTS)
+    assert isinstance(paths, flatray.PathBatch)
+    assert paths.direction.shape == paths.entry.shape == paths.exit.shape == (5, 3)
+    assert paths.geometric_length.shape == paths.transmittance.shape == (5,)
+    assert paths.status.dtype == np.int32
+    assert paths.status.tolist() == [int(s) for s in EXPECTED_STATUS]
+    for i in GOOD:
+        single = flatray.line_of_sight(lake, EYE, OBJECTS[i])
+        assert np.array_equal(_path_fields(paths, i), _single_fields(single))
+    for i in BAD:
+        assert np.isnan(_path_fields(paths, i)).all()
+    # Per-point observers through a port (one layer: entry and exit differ).
+    rng = np.random.default_rng(7)
+    objects = np.column_stack([rng.uniform(-1, 1, 50), rng.uniform(-1, 1, 50),
+                               rng.uniform(0.1, 3.0, 50)])
+    cameras = rng.uniform(-0.01, 0.01, (50, 3))
+    paths = flatray.lines_of_sight(port, cameras, objects, raise_on_error=True)
+    assert (paths.status == 0).all()
+    for i in range(0, 50, 7):
+        single = flatray.line_of_sight(port, cameras[i], objects[i])
+        assert np.array_equal(_path_fields(paths, i), _single_fields(single))
+    # Physics, independent of the library: each traced line of sight reaches its
+    # object (to the solver's accuracy, 1e-14 of the geometry's size; 1e-12 m here).
+    o, d, _, st = flatray.trace_rays(port, cameras, paths.direction)
+    assert (st == 0).all()
+    along = np.einsum("ij,ij->i", objects - o, d)
+    miss = np.linalg.norm(objects - o - along[:, None] * d, axis=1)
+    assert miss.max() < 1e-12
+
+
+def test_lines_of_sight_large_batch_on_every_core(lake):
+    # Above the parallel threshold: the split over threads changes nothing.
+    n = 20_000
+    rng = np.random.default_rng(11)
+    objects = np.column_stack([rng.uniform(-30, 30, n), rng.uniform(-30, 30, n),
+                               -rng.uniform(0.0, 6.0, n)])
+    objects[::997, 0] = NAN
+    paths = flatray.lines_of_sight(lake, (0, 0, 40), objects)
+    assert (paths.status[::997] == Status.INVALID_ARGUMENT).all()
+    for i in range(1, n, 1013):
+        single = flatray.line_of_sight(lake, (0, 0, 40), objects[i])
+        assert np.array_equal(_path_fields(paths, i), _single_fields(single))
+
+
+def test_lines_of_sight_errors(lake):
+    with pytest.raises(flatray.InvalidArgumentError) as info:
+        flatray.lines_of_sight(lake, EYE, OBJECTS, raise_on_error=True)
+    assert info.value.index == 1 and info.value.function == "flatray_lines_of_sight"
+    two = np.array([[0, 0, 1.0], [0, 0, 2.0]])
+    with pytest.raises(flatray.InvalidArgumentError) as info:
+        flatray.lines_of_sight(lake, two, OBJECTS)
+    assert info.value.index is None
+    bad = lake.to_c()
+    bad.n_object = NAN
+    with pytest.raises(flatray.InvalidArgumentError):
+        flatray.lines_of_sight(bad, EYE, OBJECTS)
+    with pytest.raises(ValueError, match="objects"):
+        flatray.lines_of_sight(lake, EYE, np.zeros((3, 2)))
+    with pytest.raises(ValueError, match="observers"):
+        flatray.lines_of_sight(lake, np.zeros(4), OBJECTS)
+    empty = flatray.lines_of_sight(lake, EYE, np.empty((0, 3)))
+    assert empty.direction.shape == (0, 3) and empty.status.shape == (0,)
+    # The raw C function: a whole-call error writes nothing; NULL out_status is fine.
+    good = np.ascontiguousarray(OBJECTS[GOOD])
+    out = np.full((3, 12), 7.0)
+    status = np.full(3, -1, dtype=np.int32)
+    rc = flatray.lib.flatray_lines_of_sight(
+        ctypes.byref(lake.to_c()), two.ctypes.data_as(VEC_P), 2, good.ctypes.data_as(VEC_P), 3,
+        out.ctypes.data_as(PATH_P), status.ctypes.data_as(INT32_P))
+    assert rc == Status.INVALID_ARGUMENT
+    assert (out == 7.0).all() and (status == -1).all()
+    eye = np.ascontiguousarray(EYE.reshape(1, 3))
+    rc = flatray.lib.flatray_lines_of_sight(
+        ctypes.byref(lake.to_c()), eye.ctypes.data_as(VEC_P), 1, good.ctypes.data_as(VEC_P), 3,
+        out.ctypes.data_as(PATH_P), None)
+    assert rc == Status.OK and np.isfinite(out).all()
+    rc = flatray.lib.flatray_lines_of_sight(
+        ctypes.byref(lake.to_c()), eye.ctypes.data_as(VEC_P), 1, None, 3,
+        out.ctypes.data_as(PATH_P), None)
+    assert rc == Status.NULL_POINTER

@@ -125,7 +125,7 @@ def _header_functions():
 
 def test_every_header_function_is_declared_exactly():
     header = _header_functions()
-    assert len(header) == 32 + 11 + 9  # core and media 32, survey 11, camera 9
+    assert len(header) == 32 + 11 + 9 + 1  # core and media 32, survey 11, camera 9, lines_of_sight 1
     assert set(header) == set(_lib.PROTOTYPES)
     for name, (restype, argtypes) in header.items():
         function = getattr(flatray.lib, name)
