@@ -8,7 +8,7 @@
 use flatray::survey::{correct_range, correct_ranges, GroupIndices};
 use flatray::{
     apparent_depth, apparent_position, batch, fresnel, line_of_sight, refract, trace,
-    true_position, Image, Layer, NoStatus, Ray, Stack, Status, Vec3,
+    true_position, Image, Layer, NoStatus, Path, Ray, Stack, Status, Vec3,
 };
 use std::alloc::{GlobalAlloc, Layout, System};
 use std::sync::atomic::{AtomicUsize, Ordering};
@@ -86,6 +86,7 @@ fn per_point_work_does_not_allocate() {
             .collect();
         let mut out = vec![Vec3::ZERO; n];
         let mut status = vec![Status::Ok; n];
+        let mut paths = vec![Path::NAN; n];
         let observers = [eye];
         allocations_during(|| {
             batch::true_positions(
@@ -115,6 +116,8 @@ fn per_point_work_does_not_allocate() {
                 &mut status[..],
             )
             .unwrap();
+            batch::lines_of_sight(&stack, &observers, &points, &mut paths, &mut status[..])
+                .unwrap();
         })
     };
     run(50_000);
