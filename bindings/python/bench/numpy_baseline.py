@@ -175,10 +175,15 @@ def solve(stack, observers, objects):
     tol = RELATIVE_TOLERANCE * (target + h_obs + h_obj + total)
 
     # Newton on the points still moving; h of the observer's and object's media
-    # vary per point, the layers' are constants.
+    # vary per point, the layers' are constants. F(u) = u Σ h_k / D_k and
+    # F'(u) = Σ h_k ν_k² / D_k³; the first step from u = 0 (F'(0) = Σ h_k / ν_k)
+    # is the paraxial guess, taken directly.
     u = np.zeros(count)
     idx = np.flatnonzero(ok & (target > tol))
-    ua, h0a, hxa, ta, tola = u[idx], h_obs[idx], h_obj[idx], target[idx], tol[idx]
+    h0a, hxa, ta, tola = h_obs[idx], h_obj[idx], target[idx], tol[idx]
+    paraxial = h0a / nu[0] + sum(h / v for h, v in zip(layer_h, nu[1:-1])) + hxa / nu[-1]
+    ua = ta / paraxial
+    last = len(nu) - 1
     for _ in range(MAX_ITERATIONS):
         if idx.size == 0:
             break
@@ -186,19 +191,27 @@ def solve(stack, observers, objects):
         f = np.zeros_like(ua)
         df = np.zeros_like(ua)
         for k, (nu_k, b_k) in enumerate(zip(nu, b)):
-            h_k = h0a if k == 0 else (hxa if k == len(nu) - 1 else layer_h[k - 1])
-            a_k = nu_k * nu_k
+            h_k = h0a if k == 0 else (hxa if k == last else layer_h[k - 1])
             if b_k == 0.0:  # the lowest-index medium: D = 1
                 f += h_k
                 df += h_k
                 continue
-            d_k = np.sqrt(a_k + b_k * u2)
-            inv = h_k / d_k
+            a_k = nu_k * nu_k
+            d_k = u2 * b_k
+            d_k += a_k
+            np.sqrt(d_k, out=d_k)
+            inv = h_k / d_k  # h_k / D_k
             f += inv
-            df += inv * (a_k / (d_k * d_k))
-        residual = ta - ua * f
+            d_k *= d_k
+            np.divide(a_k, d_k, out=d_k)
+            d_k *= inv  # h_k ν_k² / D_k³
+            df += d_k
+        f *= ua
+        residual = np.subtract(ta, f, out=f)
         moving = residual > tola
-        ua = ua + np.where(moving, residual / df, 0.0)
+        residual /= df
+        residual[~moving] = 0.0
+        ua += residual
         if not moving.all():
             u[idx] = ua
             keep = np.flatnonzero(moving)
