@@ -151,8 +151,8 @@ def _points(value, name: str) -> da.Array:
 def _per_point(value, points: da.Array, name: str):
     """(shared, per_point): a shared (3,) numpy vector, or a Dask array chunked
     like ``points``."""
-    if not isinstance(value, da.Array):
-        v = np.asarray(value, dtype=np.float64)
+    if not isinstance(value, da.Array) or value.shape in ((3,), (1, 3)):
+        v = np.asarray(value, dtype=np.float64)  # a small Dask array is computed here
         if v.shape in ((3,), (1, 3)):
             return v.reshape(3), None
     v = _points(value, name)

@@ -95,9 +95,10 @@ def test_the_workers_are_other_processes_with_the_library(client):
 def test_arrays_equal_the_single_process_results(client, image):
     lake, sensors, floor = scene()
     objects = da.from_array(floor, chunks=(7_500, 3))
-    for observers in (sensors, da.from_array(sensors, chunks=(5_000, 3)), (0.0, 0.0, 40.0)):
-        want = flatray.apparent_positions(lake, observers if not isinstance(observers, da.Array)
-                                          else sensors, floor, image)
+    for observers in (sensors, da.from_array(sensors, chunks=(5_000, 3)), (0.0, 0.0, 40.0),
+                      da.from_array(np.array([[0.0, 0.0, 40.0]]))):
+        local = np.asarray(observers)  # the same observers, in memory
+        want = flatray.apparent_positions(lake, local, floor, image)
         got = dask.compute(*fdask.apparent_positions(lake, observers, objects, image))
         assert same(got[0], want.points) and same(got[1], want.status)
     seen = want.points
