@@ -297,7 +297,7 @@ fn fused_silica_d_f_c_lines() {
 // Sapphire, ordinary ray. Source: the Malitson-Dodge formula as printed in the
 // handbook, evaluated by hand (mpmath, 30 digits): n_d = 1.768172093,
 // n_F = 1.77550751, n_C = 1.764883985, V_d = 72.3086; tolerance 1e-9 on the
-// indices (transcription check). Common practice (handbook, from memory):
+// indices (a check of the copied coefficients). Common practice (handbook, from memory):
 // n_o ≈ 1.768 at the d line and V_d ≈ 72.2; checked to ±5e-4 and ±0.2.
 #[test]
 fn sapphire_d_f_c_lines() {

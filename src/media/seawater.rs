@@ -219,7 +219,7 @@ mod tests {
     //   T = 0,  S = 35, λ = 400:   1.3514680625 (exact)
     //   T = 30, S = 35, λ = 700:   1.3353215787172
     // The equation is printed to 5-6 significant digits, so these only check the
-    // transcription; tolerance 1e-9 (double rounding).
+    // copying of the coefficients; tolerance 1e-9 (double rounding).
     #[test]
     fn quan_fry_hand_values() {
         let cases = [
